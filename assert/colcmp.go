@@ -1,0 +1,352 @@
+package assert
+
+import (
+	"math"
+	"math/big"
+	"strings"
+	"time"
+	"unicode"
+
+	"golang.org/x/text/cases"
+	"golang.org/x/text/unicode/norm"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// class is how the cells of a pair of columns are compared.
+type class uint8
+
+const (
+	classNone     class = iota // kinds too far apart: cells not compared
+	classBool                  // bool with bool
+	classInt                   // int64 with int64
+	classFloat                 // float64 with float64
+	classIntFloat              // int64 with float64, by value
+	classDecimal               // decimal with decimal, by value
+	classText                  // string or category with string or category
+	classDate                  // date with date
+	classTime                  // timestamp with timestamp, as instants
+	classDateTime              // date with timestamp: midnight of the day
+)
+
+// colCmp compares one column of want with the same-named column of got.
+type colCmp struct {
+	name   string
+	wc, gc *fixtures.Column
+	class  class
+	rule   floatRule     // float classes
+	tt     time.Duration // time classes, when hasTT
+	hasTT  bool
+	norm   TextNorm // text class
+	nanNul bool     // NaN equals null (float classes)
+	// intOnWant says which side holds the int64 in classIntFloat, and the
+	// date in classDateTime.
+	intOnWant bool
+	wLoc      *time.Location // classDateTime: the timestamp side's zone
+}
+
+func newColCmp(cfg *config, wc, gc *fixtures.Column) *colCmp {
+	cc := &colCmp{name: wc.Name(), wc: wc, gc: gc}
+	wk, gk := wc.Kind(), gc.Kind()
+	switch {
+	case wk == gk:
+		switch wk {
+		case fixtures.KindBool:
+			cc.class = classBool
+		case fixtures.KindInt64:
+			cc.class = classInt
+		case fixtures.KindFloat64:
+			cc.class = classFloat
+		case fixtures.KindDecimal:
+			cc.class = classDecimal
+		case fixtures.KindString, fixtures.KindCategory:
+			cc.class = classText
+		case fixtures.KindDate:
+			cc.class = classDate
+		case fixtures.KindTimestamp:
+			cc.class = classTime
+		}
+	case wk.IsText() && gk.IsText():
+		cc.class = classText
+	case wk == fixtures.KindInt64 && gk == fixtures.KindFloat64, wk == fixtures.KindFloat64 && gk == fixtures.KindInt64:
+		cc.class, cc.intOnWant = classIntFloat, wk == fixtures.KindInt64
+	case wk == fixtures.KindDate && gk == fixtures.KindTimestamp, wk == fixtures.KindTimestamp && gk == fixtures.KindDate:
+		cc.class, cc.intOnWant = classDateTime, wk == fixtures.KindDate
+	}
+	switch cc.class {
+	case classFloat, classIntFloat:
+		cc.rule = cfg.floatRuleFor(cc.name)
+		cc.nanNul = cfg.nanIsNull
+	case classDate, classTime, classDateTime:
+		cc.tt, cc.hasTT = cfg.timeTolFor(cc.name)
+	case classText:
+		cc.norm = cfg.normFor(cc.name)
+	}
+	return cc
+}
+
+// typeOK reports whether the column's types count as the same.
+func (cc *colCmp) typeOK(loose bool) bool {
+	if cc.wc.Type() == cc.gc.Type() {
+		return true
+	}
+	if !loose {
+		return false
+	}
+	switch cc.class {
+	case classIntFloat, classText, classDateTime, classTime, classDecimal:
+		return true
+	}
+	return false
+}
+
+// keyable reports whether the column can serve as a key: exact comparison
+// with a hash that agrees with it.
+func (cc *colCmp) keyable() bool {
+	switch cc.class {
+	case classBool, classInt, classDecimal, classText, classDate, classTime:
+		return !cc.hasTT
+	}
+	return false
+}
+
+// tolerant reports whether equal cells can still have a non-zero distance.
+func (cc *colCmp) tolerant() bool {
+	switch cc.class {
+	case classFloat, classIntFloat:
+		return cc.rule.hasTol || cc.rule.hasULP
+	case classDate, classTime, classDateTime:
+		return cc.hasTT
+	}
+	return false
+}
+
+// hasDelta reports whether the column's cells have distances.
+func (cc *colCmp) hasDelta() bool {
+	switch cc.class {
+	case classInt, classFloat, classIntFloat, classDecimal, classDate, classTime, classDateTime:
+		return true
+	}
+	return false
+}
+
+// ruleText describes how cells are compared, for the summaries.
+func (cc *colCmp) ruleText() string {
+	var s string
+	switch cc.class {
+	case classFloat, classIntFloat:
+		switch r := cc.rule; {
+		case r.hasULP:
+			s = formatUint(r.ulps) + " ULPs"
+		case r.hasTol && r.rel == 0:
+			s = "abs " + fixtures.FormatFloat(r.abs)
+		case r.hasTol && r.abs == 0:
+			s = "rel " + fixtures.FormatFloat(r.rel)
+		case r.hasTol:
+			s = "abs " + fixtures.FormatFloat(r.abs) + " rel " + fixtures.FormatFloat(r.rel)
+		default:
+			s = "exact"
+		}
+		if cc.class == classIntFloat {
+			s = "by value, " + s
+		}
+		if cc.nanNul {
+			s += ", NaN = null"
+		}
+	case classDecimal:
+		s = "exact, by value"
+	case classText:
+		s = "exact"
+		if cc.norm != 0 {
+			s = "text " + cc.norm.String()
+		}
+		if cc.wc.Kind() != cc.gc.Kind() {
+			s = "by text, " + s
+		}
+	case classDate, classTime, classDateTime:
+		s = "exact"
+		if cc.hasTT {
+			s = "within " + cc.tt.String()
+		}
+		if cc.class == classDateTime {
+			s = "date as midnight, " + s
+		}
+	default:
+		s = "exact"
+	}
+	return s
+}
+
+func formatUint(u uint64) string {
+	return big.NewInt(0).SetUint64(u).String()
+}
+
+// isNull reports whether a cell counts as null: a null, or a NaN when NaN
+// equals null.
+func (cc *colCmp) isNull(col *fixtures.Column, i int) bool {
+	if col.IsNull(i) {
+		return true
+	}
+	return cc.nanNul && col.Kind() == fixtures.KindFloat64 && math.IsNaN(col.Float64(i))
+}
+
+// eq reports whether cell wi of want equals cell gi of got.
+func (cc *colCmp) eq(wi, gi int) bool {
+	wn, gn := cc.isNull(cc.wc, wi), cc.isNull(cc.gc, gi)
+	if wn || gn {
+		return wn && gn
+	}
+	w, g := cc.wc, cc.gc
+	switch cc.class {
+	case classBool:
+		return w.Bool(wi) == g.Bool(gi)
+	case classInt:
+		return w.Int64(wi) == g.Int64(gi)
+	case classFloat:
+		return floatEqual(w.Float64(wi), g.Float64(gi), cc.rule)
+	case classIntFloat:
+		iv, fv := cc.intFloat(wi, gi)
+		if fv == math.Trunc(fv) && fv >= -(1<<63) && fv < 1<<63 && int64(fv) == iv {
+			return true
+		}
+		if cc.intOnWant {
+			return floatEqual(float64(iv), fv, cc.rule) && !math.IsNaN(fv)
+		}
+		return floatEqual(fv, float64(iv), cc.rule) && !math.IsNaN(fv)
+	case classDecimal:
+		return w.Decimal(wi).Cmp(g.Decimal(gi)) == 0
+	case classText:
+		a, b := w.Str(wi), g.Str(gi)
+		return a == b || (cc.norm != 0 && normalize(a, cc.norm) == normalize(b, cc.norm))
+	case classDate:
+		a, b := w.Days(wi), g.Days(gi)
+		if a == b {
+			return true
+		}
+		return cc.hasTT && absDays(a, b) <= cc.tt.Hours()/24
+	case classTime:
+		if w.Type().Unit() == g.Type().Unit() && w.Ticks(wi) == g.Ticks(gi) {
+			return true
+		}
+		a, b := w.Time(wi), g.Time(gi)
+		if a.Equal(b) {
+			return true
+		}
+		return cc.hasTT && absSeconds(a, b) <= cc.tt.Seconds()
+	case classDateTime:
+		a, b := cc.dateTime(wi, gi)
+		if a.Equal(b) {
+			return true
+		}
+		return cc.hasTT && absSeconds(a, b) <= cc.tt.Seconds()
+	}
+	return false
+}
+
+// intFloat returns the int64 and float64 cells of a classIntFloat pair.
+func (cc *colCmp) intFloat(wi, gi int) (int64, float64) {
+	if cc.intOnWant {
+		return cc.wc.Int64(wi), cc.gc.Float64(gi)
+	}
+	return cc.gc.Int64(gi), cc.wc.Float64(wi)
+}
+
+// dateTime returns the want and got cells of a classDateTime pair as
+// instants, the date as midnight in the timestamp's zone.
+func (cc *colCmp) dateTime(wi, gi int) (time.Time, time.Time) {
+	if cc.intOnWant {
+		ts := cc.gc.Time(gi)
+		return midnight(cc.wc.Date(wi), ts.Location()), ts
+	}
+	ts := cc.wc.Time(wi)
+	return ts, midnight(cc.gc.Date(gi), ts.Location())
+}
+
+func midnight(day time.Time, loc *time.Location) time.Time {
+	return time.Date(day.Year(), day.Month(), day.Day(), 0, 0, 0, 0, loc)
+}
+
+func absDays(a, b int32) float64 {
+	return math.Abs(float64(a) - float64(b))
+}
+
+// absSeconds returns |a − b| in seconds without the saturation of
+// time.Time.Sub.
+func absSeconds(a, b time.Time) float64 {
+	return math.Abs(float64(a.Unix()-b.Unix()) + float64(a.Nanosecond()-b.Nanosecond())/1e9)
+}
+
+// delta returns the distance of cell wi of want and cell gi of got.
+func (cc *colCmp) delta(wi, gi int) Delta {
+	if cc.isNull(cc.wc, wi) || cc.isNull(cc.gc, gi) {
+		return Delta{}
+	}
+	w, g := cc.wc, cc.gc
+	switch cc.class {
+	case classInt:
+		a, b := w.Int64(wi), g.Int64(gi)
+		var u uint64
+		if a >= b {
+			u = uint64(a) - uint64(b)
+		} else {
+			u = uint64(b) - uint64(a)
+		}
+		abs := float64(u)
+		if abs == 0 {
+			return Delta{Has: true}
+		}
+		return Delta{Has: true, Abs: abs, Rel: abs / math.Max(math.Abs(float64(a)), math.Abs(float64(b)))}
+	case classFloat:
+		a, b := w.Float64(wi), g.Float64(gi)
+		return cc.withULPs(floatDelta(a, b), a, b)
+	case classIntFloat:
+		iv, fv := cc.intFloat(wi, gi)
+		return cc.withULPs(floatDelta(float64(iv), fv), float64(iv), fv)
+	case classDecimal:
+		a, b := w.Decimal(wi), g.Decimal(gi)
+		diff := new(big.Rat).Sub(a.Rat(), b.Rat())
+		abs, _ := diff.Abs(diff).Float64()
+		if abs == 0 {
+			return Delta{Has: true}
+		}
+		return Delta{Has: true, Abs: abs, Rel: abs / math.Max(math.Abs(a.Float64()), math.Abs(b.Float64()))}
+	case classDate:
+		return Delta{Has: true, Abs: absDays(w.Days(wi), g.Days(gi)) * 86400}
+	case classTime:
+		return Delta{Has: true, Abs: absSeconds(w.Time(wi), g.Time(gi))}
+	case classDateTime:
+		a, b := cc.dateTime(wi, gi)
+		return Delta{Has: true, Abs: absSeconds(a, b)}
+	}
+	return Delta{}
+}
+
+func (cc *colCmp) withULPs(d Delta, a, b float64) Delta {
+	if cc.rule.hasULP && d.Has && !math.IsNaN(a) && !math.IsNaN(b) {
+		d.ULPs, d.HasULPs = ulpDistance(a, b), true
+	}
+	return d
+}
+
+// folder is Unicode full case folding; a Fold Caser is stateless and safe
+// for concurrent use, so one serves every comparison.
+var folder = cases.Fold()
+
+// normalize applies the text normalisations of how to s: NFC, then
+// trimming of Unicode white space, then case folding (followed by NFC again,
+// since folding can undo composition).
+func normalize(s string, how TextNorm) string {
+	if how&NFC != 0 {
+		s = norm.NFC.String(s)
+	}
+	if how&TrimSpace != 0 {
+		s = strings.TrimFunc(s, unicode.IsSpace)
+	}
+	if how&FoldCase != 0 {
+		s = folder.String(s)
+		if how&NFC != 0 {
+			s = norm.NFC.String(s)
+		}
+	}
+	return s
+}

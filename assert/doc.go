@@ -1,0 +1,69 @@
+// Package assert decides whether the table a transformation produced is the
+// table that was wanted, and when it is not, says exactly how.
+//
+// Compare pairs the rows of a wanted and a got *fixtures.Table — by
+// position, by key (ByKey) or as a multiset (AnyRowOrder) — compares their
+// cells under per-column rules and returns a *Diff: schema changes, missing
+// and extra rows, repeated keys, differing cells with their distances, and
+// per-column summaries. Tables and MustMatch wrap it for tests. A Diff
+// renders as plain text for test failures and terminals (Text, TextWith),
+// as Markdown for reviewers (Markdown) and as JSON for tools (JSON); its
+// exported fields serve any other renderer.
+//
+// # Typical use
+//
+//	func TestDailySummary(t *testing.T) {
+//		raw := fixtures.MustParse(t, `
+//			house:string | at:timestamp(s)      | temp_c:float64
+//			Étang        | 2026-04-01T06:00:00  | 8.5
+//			Étang        | 2026-04-01T14:00:00  | 21.5
+//		`)
+//		want := fixtures.MustParse(t, `
+//			house:string | day:date   | tmin:float64 | tmax:float64
+//			Étang        | 2026-04-01 | 8.5          | 21.5
+//		`)
+//		got := DailySummary(raw)
+//		assert.Tables(t, want, got,
+//			assert.ByKey("house", "day"),
+//			assert.Tol("*", 1e-9, 0))
+//	}
+//
+// # Defaults
+//
+// Rows pair by position; a longer table's tail rows are missing or extra.
+// Cells must be equal exactly: floats too, where −0 equals +0 and NaN
+// equals NaN; null equals null and nothing else (NaN is not null unless
+// NaNIsNull). Columns must agree in name, type and order. Decimal columns
+// always compare exactly, by value (1.5 equals 1.50).
+//
+// # Tolerances
+//
+// Tol(col, abs, rel) makes float cells w and g equal when
+//
+//	|w − g| ≤ max(abs, rel × max(|w|, |g|))
+//
+// which is symmetric in w and g and is the rule Python's math.isclose
+// specifies (PEP 485). With rel only, nothing but 0 is close to 0. An
+// infinity equals only the same infinity. ULPs(col, n) instead allows n
+// units in the last place, counted on the IEEE 754 bit patterns mapped to
+// ordered integers, so −0 and +0 are 0 apart and adjacent floats 1 apart.
+// TimeTol does the same for dates and timestamps.
+//
+// Warning: a tolerance can hide a real difference. Give each column only
+// the slack its computation's rounding needs, and never put money in a
+// float column under a tolerance: keep it in a decimal column, which
+// compares exactly, or compare it exactly.
+//
+// # Bad input
+//
+// Compare never panics on its input. Nil tables, a key column missing on
+// a side, a float key, an option naming a column neither table has, or a
+// negative tolerance become Problems in the Diff, so the test fails with
+// the reason.
+//
+// # Speed
+//
+// Columns are compared in parallel over the tables' Arrow buffers without
+// copying them; keyed matching hashes the key columns once. The benchmarks
+// in bench_test.go compare against Arrow's array.ApproxEqual and testify.
+package assert

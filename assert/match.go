@@ -1,0 +1,600 @@
+package assert
+
+import (
+	"hash/maphash"
+	"math"
+	"math/bits"
+	"slices"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// Row matching by key (ByKey) and as a multiset (AnyRowOrder). Both hash
+// the matching columns of every row once, column by column, and find equal
+// rows through an open-addressing table of want rows; cells are compared
+// only to confirm a hash hit.
+
+// hashBlock is how many rows are hashed at a time.
+const hashBlock = 4096
+
+// rowKeys hashes and compares the matching cells of rows on both sides.
+type rowKeys struct {
+	cols []*colCmp
+	seed maphash.Seed
+	// int64 fast path: a single int64 key column without nulls.
+	wInts, gInts []int64
+}
+
+func newRowKeys(cols []*colCmp) *rowKeys {
+	k := &rowKeys{cols: cols, seed: maphash.MakeSeed()}
+	if len(cols) == 1 && cols[0].class == classInt && cols[0].wc.NullCount() == 0 && cols[0].gc.NullCount() == 0 {
+		k.wInts, k.gInts = cols[0].wc.Int64s(), cols[0].gc.Int64s()
+	}
+	return k
+}
+
+// mix is a 64-bit finaliser (from the splitmix64 generator) that spreads
+// the bits of x over the whole word.
+func mix(x uint64) uint64 {
+	x ^= x >> 30
+	x *= 0xbf58476d1ce4e5b9
+	x ^= x >> 27
+	x *= 0x94d049bb133111eb
+	x ^= x >> 31
+	return x
+}
+
+const nullHash = 0x6a09e667f3bcc908
+
+// hash writes the hashes of rows [from, from+len(out)) of a side.
+func (k *rowKeys) hash(side Side, from int, out []uint64) {
+	if k.wInts != nil {
+		v := pick(side == WantSide, k.wInts, k.gInts)[from : from+len(out)]
+		for i, x := range v {
+			out[i] = mix(uint64(x))
+		}
+		return
+	}
+	clear(out)
+	for _, cc := range k.cols {
+		col := pick(side == WantSide, cc.wc, cc.gc)
+		cc.hashCells(col, from, out, k.seed)
+	}
+}
+
+// hashCells mixes the hashes of cells [from, from+len(out)) of col, one of
+// cc's columns, into out. Cells that cc counts equal hash alike.
+func (cc *colCmp) hashCells(col *fixtures.Column, from int, out []uint64, seed maphash.Seed) {
+	put := func(i int, v uint64) { out[i] = mix(bits.RotateLeft64(out[i], 23) ^ v) }
+	nulls := col.NullCount() > 0 || (cc.nanNul && col.Kind() == fixtures.KindFloat64)
+	var levelHash []uint64
+	if col.Kind() == fixtures.KindCategory {
+		levelHash = make([]uint64, col.NumLevels())
+		for l := range levelHash {
+			levelHash[l] = maphash.String(seed, cc.normText(col.Level(l)))
+		}
+	}
+	for i := range out {
+		r := from + i
+		if nulls && cc.isNull(col, r) {
+			put(i, nullHash)
+			continue
+		}
+		var v uint64
+		switch col.Kind() {
+		case fixtures.KindBool:
+			v = 1
+			if col.Bool(r) {
+				v = 2
+			}
+		case fixtures.KindInt64:
+			if cc.class == classIntFloat {
+				v = floatHash(float64(col.Int64(r)))
+			} else {
+				v = uint64(col.Int64(r))
+			}
+		case fixtures.KindFloat64:
+			v = floatHash(col.Float64(r))
+		case fixtures.KindDate:
+			v = uint64(col.Days(r))
+		case fixtures.KindTimestamp:
+			if cc.wc.Type().Unit() == cc.gc.Type().Unit() {
+				v = uint64(col.Ticks(r))
+			} else {
+				t := col.Time(r)
+				v = mix(uint64(t.Unix())) ^ uint64(t.Nanosecond())
+			}
+		case fixtures.KindDecimal:
+			v = maphash.String(seed, col.Decimal(r).Rat().RatString())
+		case fixtures.KindString:
+			v = maphash.String(seed, cc.normText(col.Str(r)))
+		case fixtures.KindCategory:
+			v = levelHash[col.Code(r)]
+		}
+		put(i, v)
+	}
+}
+
+// floatHash hashes a float so that == values (−0, +0) and all NaNs hash
+// alike.
+func floatHash(f float64) uint64 {
+	switch {
+	case f == 0:
+		return 0
+	case f != f:
+		return 0x7ff8000000000001
+	}
+	return math.Float64bits(f)
+}
+
+func (cc *colCmp) normText(s string) string {
+	if cc.norm != 0 {
+		return normalize(s, cc.norm)
+	}
+	return s
+}
+
+// equal reports whether row i of side a and row j of side b agree on every
+// matching column.
+func (k *rowKeys) equal(a Side, i int, b Side, j int) bool {
+	if k.wInts != nil {
+		return pick(a == WantSide, k.wInts, k.gInts)[i] == pick(b == WantSide, k.wInts, k.gInts)[j]
+	}
+	for _, cc := range k.cols {
+		if !cc.eqSides(a, i, b, j) {
+			return false
+		}
+	}
+	return true
+}
+
+// eqSides is eq for cells that may both come from the same side.
+func (cc *colCmp) eqSides(a Side, i int, b Side, j int) bool {
+	switch {
+	case a == WantSide && b == GotSide:
+		return cc.eq(i, j)
+	case a == GotSide && b == WantSide:
+		return cc.eq(j, i)
+	}
+	col := pick(a == WantSide, cc.wc, cc.gc)
+	self := *cc
+	self.wc, self.gc = col, col
+	self.intOnWant = col.Kind() == fixtures.KindInt64 || col.Kind() == fixtures.KindDate
+	if cc.class == classIntFloat || cc.class == classDateTime {
+		// Same column on both sides: plain exact comparison of its kind.
+		self.class = map[fixtures.Kind]class{fixtures.KindInt64: classInt, fixtures.KindFloat64: classFloat,
+			fixtures.KindDate: classDate, fixtures.KindTimestamp: classTime}[col.Kind()]
+	}
+	return self.eq(i, j)
+}
+
+// rowTable finds want rows by hash: open addressing with linear probing
+// over slots holding want row indexes (-1 empty).
+type rowTable struct {
+	slots  []int32
+	mask   uint64
+	hashes []uint64 // hash of every want row
+}
+
+func newRowTable(n int) *rowTable {
+	size := 1 << bits.Len(uint(max(2*n, 8)-1))
+	t := &rowTable{slots: make([]int32, size), mask: uint64(size - 1), hashes: make([]uint64, n)}
+	for i := range t.slots {
+		t.slots[i] = -1
+	}
+	return t
+}
+
+// groups is the outcome of grouping rows by their matching cells: every
+// want row belongs to the group of the first want row with equal cells
+// (its head); got rows find their head, or -1.
+type groups struct {
+	// wantMore lists, for heads with several want rows, the others in
+	// order.
+	wantMore map[int32][]int32
+	// gotHead is the want head of each got row, -1 when want has no row
+	// with its cells.
+	gotHead []int32
+}
+
+// groupRows hashes want rows into a table, then looks up every got row.
+func groupRows(k *rowKeys, nw, ng int) *groups {
+	t := newRowTable(nw)
+	g := &groups{wantMore: map[int32][]int32{}, gotHead: make([]int32, ng)}
+	for from := 0; from < nw; from += hashBlock {
+		hs := t.hashes[from:min(from+hashBlock, nw)]
+		k.hash(WantSide, from, hs)
+		for i, h := range hs {
+			row := int32(from + i)
+			s := h & t.mask
+			for {
+				r := t.slots[s]
+				if r < 0 {
+					t.slots[s] = row
+					break
+				}
+				if t.hashes[r] == h && k.equal(WantSide, int(r), WantSide, int(row)) {
+					g.wantMore[r] = append(g.wantMore[r], row)
+					break
+				}
+				s = (s + 1) & t.mask
+			}
+		}
+	}
+	buf := make([]uint64, min(hashBlock, ng))
+	for from := 0; from < ng; from += hashBlock {
+		hs := buf[:min(hashBlock, ng-from)]
+		k.hash(GotSide, from, hs)
+		for i, h := range hs {
+			j := from + i
+			g.gotHead[j] = -1
+			s := h & t.mask
+			for {
+				r := t.slots[s]
+				if r < 0 {
+					break
+				}
+				if t.hashes[r] == h && k.equal(WantSide, int(r), GotSide, j) {
+					g.gotHead[j] = r
+					break
+				}
+				s = (s + 1) & t.mask
+			}
+		}
+	}
+	return g
+}
+
+// gotOnly groups got rows that want lacks by their cells, to find repeated
+// keys among them. It returns, for each such got row that is not the first
+// with its cells, the first one.
+func gotOnly(k *rowKeys, g *groups) map[int32][]int32 {
+	byHash := map[uint64][]int32{}
+	more := map[int32][]int32{}
+	var h [1]uint64
+	for j, head := range g.gotHead {
+		if head >= 0 {
+			continue
+		}
+		k.hash(GotSide, j, h[:])
+		found := false
+		for _, first := range byHash[h[0]] {
+			if k.equal(GotSide, int(first), GotSide, j) {
+				more[first] = append(more[first], int32(j))
+				found = true
+				break
+			}
+		}
+		if !found {
+			byHash[h[0]] = append(byHash[h[0]], int32(j))
+		}
+	}
+	return more
+}
+
+// matchByKey pairs rows with equal keys, in order of appearance, and
+// reports missing and extra rows and repeated keys.
+func (c *comparison) matchByKey() {
+	nw, ng := c.want.NumRows(), c.got.NumRows()
+	k := newRowKeys(c.keyCols)
+	g := groupRows(k, nw, ng)
+	gOf := make([]int32, nw)
+	for i := range gOf {
+		gOf[i] = -1
+	}
+	next := map[int32]int{}          // heads with several want rows: how many are taken
+	gotMore := map[int32][]int32{}   // want head → later got rows with its key
+	matched := make([]uint64, (ng+63)/64)
+	for j, head := range g.gotHead {
+		if head < 0 {
+			continue
+		}
+		if gOf[head] < 0 {
+			gOf[head] = int32(j)
+			matched[j>>6] |= 1 << (uint(j) & 63)
+			continue
+		}
+		gotMore[head] = append(gotMore[head], int32(j))
+		if more := g.wantMore[head]; next[head] < len(more) {
+			gOf[more[next[head]]] = int32(j)
+			next[head]++
+			matched[j>>6] |= 1 << (uint(j) & 63)
+		}
+	}
+	c.pairs = pairing{n: nw, g: gOf}
+	for i, gi := range gOf {
+		if gi < 0 {
+			c.addMissing(i)
+		}
+	}
+	for j := 0; j < ng; j++ {
+		if matched[j>>6]&(1<<(uint(j)&63)) == 0 {
+			c.addExtra(j)
+		}
+	}
+	// Repeated keys: want's in order of first appearance, then got's.
+	wantHeads := sortedKeys(g.wantMore)
+	for _, h := range wantHeads {
+		c.addDuplicate(WantSide, append([]int32{h}, g.wantMore[h]...))
+	}
+	type gotDup struct {
+		first int32
+		rows  []int32
+	}
+	var gd []gotDup
+	for h, more := range gotMore {
+		gd = append(gd, gotDup{gOf[h], append([]int32{gOf[h]}, more...)})
+	}
+	for first, more := range gotOnly(k, g) {
+		gd = append(gd, gotDup{first, append([]int32{first}, more...)})
+	}
+	slices.SortFunc(gd, func(a, b gotDup) int { return int(a.first) - int(b.first) })
+	for _, x := range gd {
+		c.addDuplicate(GotSide, x.rows)
+	}
+}
+
+func sortedKeys(m map[int32][]int32) []int32 {
+	out := make([]int32, 0, len(m))
+	for h := range m {
+		out = append(out, h)
+	}
+	slices.Sort(out)
+	return out
+}
+
+func (c *comparison) addDuplicate(side Side, rows []int32) {
+	d := &c.d.Duplicates
+	if side == WantSide {
+		d.WantKeys++
+	} else {
+		d.GotKeys++
+	}
+	if d.listFull(len(d.Keys), c.d.Limit) {
+		return
+	}
+	dk := DuplicateKey{Side: side, Key: c.keyText(side, int(rows[0])), Count: len(rows)}
+	for _, r := range rows {
+		if c.d.Limit >= 0 && len(dk.Rows) >= c.d.Limit {
+			break
+		}
+		dk.Rows = append(dk.Rows, int(r))
+	}
+	d.Keys = append(d.Keys, dk)
+}
+
+func (d *DuplicateList) listFull(n, limit int) bool { return limit >= 0 && n >= limit }
+
+// multisetGroupLimit is the largest group (rows a side) that AnyRowOrder
+// pairs by maximum matching; larger groups are paired first-fit.
+const multisetGroupLimit = 64
+
+// multisetWindow is how many unpaired got rows within reach a want row of
+// a large group is tried against.
+const multisetWindow = 64
+
+// matchAsMultiset pairs equal rows in any order. Columns with a tolerance
+// (and date-with-timestamp columns) are left out of the hash; rows that
+// agree on the other columns form a group, and within a group rows are
+// paired when their remaining cells are equal under the rules.
+func (c *comparison) matchAsMultiset() {
+	nw, ng := c.want.NumRows(), c.got.NumRows()
+	var exact, loose []*colCmp
+	for _, cc := range c.cols {
+		if cc.tolerant() || cc.class == classDateTime {
+			loose = append(loose, cc)
+		} else {
+			exact = append(exact, cc)
+		}
+	}
+	k := newRowKeys(exact)
+	g := groupRows(k, nw, ng)
+	gOf := make([]int32, nw)
+	for i := range gOf {
+		gOf[i] = -1
+	}
+	gotOf := make([]int32, ng)
+	for j := range gotOf {
+		gotOf[j] = -1
+	}
+	if len(loose) == 0 {
+		next := map[int32]int{}
+		for j, head := range g.gotHead {
+			if head < 0 {
+				continue
+			}
+			if gOf[head] < 0 {
+				gOf[head], gotOf[j] = int32(j), head
+			} else if more := g.wantMore[head]; next[head] < len(more) {
+				wi := more[next[head]]
+				gOf[wi], gotOf[j] = int32(j), wi
+				next[head]++
+			}
+		}
+	} else {
+		gotRows := map[int32][]int32{}
+		for j, head := range g.gotHead {
+			if head >= 0 {
+				gotRows[head] = append(gotRows[head], int32(j))
+			}
+		}
+		near := func(wi, gi int32) bool {
+			for _, cc := range loose {
+				if !cc.eq(int(wi), int(gi)) {
+					return false
+				}
+			}
+			return true
+		}
+		for _, head := range sortedKeys(gotRows) {
+			ws := append([]int32{head}, g.wantMore[head]...)
+			pairGroup(ws, gotRows[head], near, loose, gOf, gotOf)
+		}
+	}
+	var pw, pg []int32
+	for i, gi := range gOf {
+		if gi < 0 {
+			c.addMissing(i)
+			continue
+		}
+		pw, pg = append(pw, int32(i)), append(pg, gi)
+	}
+	for j, wi := range gotOf {
+		if wi < 0 {
+			c.addExtra(j)
+		}
+	}
+	c.pairs = pairing{n: len(pw), w: pw, g: pg}
+}
+
+// pairGroup pairs the want rows ws with the got rows gs of one group,
+// writing partners into gOf and gotOf. Small groups get a maximum matching
+// (augmenting paths, seeded with rows in order); large ones are sorted by
+// their first tolerant column and paired first-fit.
+func pairGroup(ws, gs []int32, near func(wi, gi int32) bool, loose []*colCmp, gOf, gotOf []int32) {
+	if len(ws) <= multisetGroupLimit && len(gs) <= multisetGroupLimit {
+		adj := make([][]int, len(ws))
+		for a, wi := range ws {
+			for b, gi := range gs {
+				if near(wi, gi) {
+					adj[a] = append(adj[a], b)
+				}
+			}
+		}
+		mw := make([]int, len(ws)) // partner index in gs, or -1
+		mg := make([]int, len(gs))
+		for i := range mw {
+			mw[i] = -1
+		}
+		for i := range mg {
+			mg[i] = -1
+		}
+		var try func(a int, seen []bool) bool
+		try = func(a int, seen []bool) bool {
+			for _, b := range adj[a] {
+				if seen[b] {
+					continue
+				}
+				seen[b] = true
+				if mg[b] < 0 || try(mg[b], seen) {
+					mw[a], mg[b] = b, a
+					return true
+				}
+			}
+			return false
+		}
+		for a := range ws {
+			try(a, make([]bool, len(gs)))
+		}
+		for a, b := range mw {
+			if b >= 0 {
+				gOf[ws[a]], gotOf[gs[b]] = gs[b], ws[a]
+			}
+		}
+		return
+	}
+	// Large group: sort got rows by the first tolerant column, then pair
+	// each want row (in sorted order) with the first near got row among the
+	// unpaired ones whose first tolerant cell lies within that column's
+	// tolerance of its own.
+	first := loose[0]
+	wk := sortKeys(first.wc, ws)
+	gs = slices.Clone(gs)
+	gk := sortKeys(first.gc, gs)
+	slices.SortFunc(gs, func(a, b int32) int {
+		if c := cmpFloat(gk[a], gk[b]); c != 0 {
+			return c
+		}
+		return int(a) - int(b)
+	})
+	keys := make([]float64, len(gs))
+	for b, gi := range gs {
+		keys[b] = gk[gi]
+	}
+	ws = slices.Clone(ws)
+	slices.SortFunc(ws, func(a, b int32) int {
+		if c := cmpFloat(wk[a], wk[b]); c != 0 {
+			return c
+		}
+		return int(a) - int(b)
+	})
+	for _, wi := range ws {
+		x := wk[wi]
+		lo, hi := x, x
+		if !math.IsInf(x, 0) {
+			r := first.reach(x)
+			lo, hi = x-r, x+r
+		}
+		b, _ := slices.BinarySearchFunc(keys, lo, cmpFloat)
+		for tried := 0; b < len(gs) && cmpFloat(keys[b], hi) <= 0 && tried < multisetWindow; b++ {
+			gi := gs[b]
+			if gotOf[gi] >= 0 {
+				continue
+			}
+			tried++
+			if near(wi, gi) {
+				gOf[wi], gotOf[gi] = gi, wi
+				break
+			}
+		}
+	}
+}
+
+// sortKeys returns, for the given rows of col, a number to sort them by:
+// the value (times in seconds), −Inf for null, +Inf for NaN.
+func sortKeys(col *fixtures.Column, rows []int32) map[int32]float64 {
+	out := make(map[int32]float64, len(rows))
+	for _, r := range rows {
+		i := int(r)
+		v := 0.0
+		switch {
+		case col.IsNull(i):
+			v = math.Inf(-1)
+		case col.Kind() == fixtures.KindFloat64:
+			v = col.Float64(i)
+			if v != v {
+				v = math.Inf(1)
+			}
+		case col.Kind() == fixtures.KindInt64:
+			v = float64(col.Int64(i))
+		case col.Kind() == fixtures.KindDate:
+			v = float64(col.Days(i)) * 86400
+		case col.Kind() == fixtures.KindTimestamp:
+			t := col.Time(i)
+			v = float64(t.Unix()) + float64(t.Nanosecond())/1e9
+		}
+		out[r] = v
+	}
+	return out
+}
+
+func cmpFloat(a, b float64) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
+}
+
+// reach bounds how far (in sort-key units) a cell equal to a cell of value
+// x can lie under the column's rule, with some slack for rounding.
+func (cc *colCmp) reach(x float64) float64 {
+	ax := math.Abs(x)
+	var r float64
+	switch {
+	case cc.hasTT:
+		r = cc.tt.Seconds()
+	case cc.rule.hasULP:
+		r = float64(cc.rule.ulps) * 2 * (math.Nextafter(ax, math.Inf(1)) - ax)
+	case cc.rule.hasTol && cc.rule.rel < 1:
+		r = math.Max(cc.rule.abs, cc.rule.rel*ax/(1-cc.rule.rel))
+	case cc.rule.hasTol:
+		return math.Inf(1)
+	}
+	if cc.class == classDateTime {
+		r += 86400 // a date is midnight in the timestamp's zone, up to a day from UTC midnight
+	}
+	return r*1.000001 + 1e-300
+}

@@ -1,0 +1,426 @@
+package assert
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/textwidth"
+)
+
+// TextStyle controls how TextWith writes a Diff.
+type TextStyle struct {
+	// Color marks headings, want values and got values with ANSI colours.
+	// Decide it in the caller: see UseColor.
+	Color bool
+	// Width is the widest line aimed at, in terminal columns (default 100).
+	// Long cells are cut with "…" to fit; the JSON and the Diff's fields
+	// keep them whole.
+	Width int
+}
+
+// ANSI escape sequences of the colour style.
+const (
+	ansiReset   = "\x1b[0m"
+	ansiBold    = "\x1b[1m"
+	ansiWant    = "\x1b[35m" // magenta
+	ansiGot     = "\x1b[36m" // cyan
+	ansiProblem = "\x1b[1;33m"
+)
+
+// Text writes the Diff as a plain-text report for a test failure or a
+// terminal: a summary line, then problems, schema changes, differing cells
+// (keys first, then want, got and their distance, with a character edit
+// for text), missing and extra rows, repeated keys and per-column
+// summaries. Lines fit in 100 columns. An equal Diff writes one line.
+func (d *Diff) Text() string { return d.TextWith(TextStyle{}) }
+
+// TextWith is Text in the given style.
+func (d *Diff) TextWith(st TextStyle) string {
+	if d == nil {
+		d = &Diff{}
+	}
+	if st.Width <= 0 {
+		st.Width = 100
+	}
+	w := &textWriter{st: st}
+	w.line(w.bold(d.headline()))
+	w.line(d.matchLine())
+	if len(d.Problems) > 0 {
+		w.section("problems")
+		for _, p := range d.Problems {
+			w.line("  " + w.paint(ansiProblem, "!") + " " + p)
+		}
+	}
+	if len(d.Schema) > 0 {
+		w.section(fmt.Sprintf("schema changes (%d)", len(d.Schema)))
+		rows := [][]string{{"column", "change", "want", "got"}}
+		for _, s := range d.Schema {
+			rows = append(rows, []string{s.Column, describeChange(s.Change), s.Want, s.Got})
+		}
+		w.table(rows, nil, map[int]string{2: ansiWant, 3: ansiGot})
+	}
+	if d.CellsDiffering > 0 {
+		w.cells(d)
+	}
+	w.rowList(d, "missing rows", "in want, not in got", d.Missing, d.WantColumns, ansiWant)
+	w.rowList(d, "extra rows", "in got, not in want", d.Extra, d.GotColumns, ansiGot)
+	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
+		w.section(fmt.Sprintf("repeated keys (want %d, got %d)%s", d.Duplicates.WantKeys, d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
+		rows := [][]string{{"side", "key", "rows", "at rows"}}
+		for _, k := range d.Duplicates.Keys {
+			at := make([]string, len(k.Rows))
+			for i, r := range k.Rows {
+				at[i] = strconv.Itoa(r)
+			}
+			more := ""
+			if len(k.Rows) < k.Count {
+				more = ", …"
+			}
+			rows = append(rows, []string{string(k.Side), "(" + strings.Join(k.Key, ", ") + ")", strconv.Itoa(k.Count), strings.Join(at, ", ") + more})
+		}
+		w.table(rows, map[int]bool{2: true}, nil)
+	}
+	if cols := d.notableColumns(); len(cols) > 0 {
+		w.section("columns")
+		rows := [][]string{{"column", "compared", "differing", "max Δabs", "at", "max Δrel", "at"}}
+		for _, c := range cols {
+			row := []string{c.Name, c.Rule, strconv.Itoa(c.Differing), "", "", "", ""}
+			if c.HasDelta && c.MaxAbsAt.Want >= 0 {
+				row[3], row[4] = formatAbs(c.MaxAbs, c.WantType.Kind()), d.rowName(c.MaxAbsAt)
+				if isTimeKind(c.WantType.Kind()) || isTimeKind(c.GotType.Kind()) {
+					row[4] = d.rowName(c.MaxAbsAt)
+				} else if c.MaxRelAt.Want >= 0 {
+					row[5], row[6] = formatRel(c.MaxRel), d.rowName(c.MaxRelAt)
+				}
+			}
+			rows = append(rows, row)
+		}
+		w.table(rows, map[int]bool{2: true, 3: true, 5: true}, nil)
+	}
+	return strings.TrimRight(w.b.String(), "\n") + "\n"
+}
+
+// headline is the first line: equal, or how many of what differ.
+func (d *Diff) headline() string {
+	if d.Equal() {
+		return fmt.Sprintf("tables are equal (%d rows, %d columns compared)", d.WantRows, len(d.Compared))
+	}
+	var parts []string
+	add := func(n int, one, many string) {
+		if n == 1 {
+			parts = append(parts, "1 "+one)
+		} else if n > 1 {
+			parts = append(parts, strconv.Itoa(n)+" "+many)
+		}
+	}
+	add(len(d.Problems), "problem", "problems")
+	add(len(d.Schema), "schema change", "schema changes")
+	if d.CellsDiffering > 0 {
+		rows := "rows"
+		if d.RowsDiffering == 1 {
+			rows = "row"
+		}
+		add(d.CellsDiffering, fmt.Sprintf("differing cell in %d %s", d.RowsDiffering, rows), fmt.Sprintf("differing cells in %d %s", d.RowsDiffering, rows))
+	}
+	add(d.Missing.Count, "missing row", "missing rows")
+	add(d.Extra.Count, "extra row", "extra rows")
+	add(d.Duplicates.WantKeys+d.Duplicates.GotKeys, "repeated key", "repeated keys")
+	return "tables differ: " + strings.Join(parts, ", ")
+}
+
+// matchLine says how big the tables are and how rows were paired.
+func (d *Diff) matchLine() string {
+	how := "rows paired by position"
+	switch d.Match {
+	case MatchByKey:
+		how = "rows matched by key (" + strings.Join(d.Keys, ", ") + ")"
+	case MatchAsMultiset:
+		how = "rows matched in any order"
+	}
+	return fmt.Sprintf("want %d rows, got %d rows; %s", d.WantRows, d.GotRows, how)
+}
+
+func describeChange(c ChangeKind) string {
+	switch c {
+	case ColumnMissing:
+		return "missing from got"
+	case ColumnExtra:
+		return "only in got"
+	case TypeChanged:
+		return "type changed"
+	case LevelsAdded:
+		return "levels added"
+	case LevelsRemoved:
+		return "levels removed"
+	case ColumnMoved:
+		return "moved"
+	}
+	return string(c)
+}
+
+// shown says how much of a listing is shown, when it is cut.
+func shown(listed, total int) string {
+	if listed < total {
+		return fmt.Sprintf(", first %d shown", listed)
+	}
+	return ""
+}
+
+// rowName names a row for a reader: its key cells, or its index.
+func (d *Diff) rowName(r RowRef) string {
+	if len(r.Key) > 0 {
+		return "(" + strings.Join(r.Key, ", ") + ")"
+	}
+	if r.Want >= 0 && r.Got >= 0 && r.Want != r.Got {
+		return fmt.Sprintf("row %d→%d", r.Want, r.Got)
+	}
+	if r.Want >= 0 {
+		return "row " + strconv.Itoa(r.Want)
+	}
+	return "row " + strconv.Itoa(r.Got)
+}
+
+// notableColumns are the summaries worth a line: columns with differing
+// cells, or compared under a tolerance and off by something.
+func (d *Diff) notableColumns() []ColumnSummary {
+	var out []ColumnSummary
+	for _, c := range d.Columns {
+		if c.Differing > 0 || (c.HasDelta && c.MaxAbs > 0 && c.Rule != "exact") {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+func isTimeKind(k fixtures.Kind) bool { return k == fixtures.KindDate || k == fixtures.KindTimestamp }
+
+// formatAbs writes an absolute delta: a duration for times, else three
+// significant digits.
+func formatAbs(v float64, k fixtures.Kind) string {
+	if isTimeKind(k) && v < 9e9 {
+		return time.Duration(math.Round(v * 1e9)).String()
+	}
+	return formatSig(v)
+}
+
+func formatRel(v float64) string { return formatSig(v) }
+
+func formatSig(v float64) string {
+	switch {
+	case math.IsInf(v, 1):
+		return "+Inf"
+	case math.IsNaN(v):
+		return "NaN"
+	case v == 0:
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 3, 64)
+}
+
+// cells writes the listing of differing cells.
+func (w *textWriter) cells(d *Diff) {
+	w.section(fmt.Sprintf("differing cells (%d)%s", d.CellsDiffering, shown(len(d.Cells), d.CellsDiffering)))
+	head := []string{}
+	keyed := d.Match == MatchByKey && len(d.Keys) > 0
+	if keyed {
+		head = append(head, d.Keys...)
+	} else {
+		head = append(head, "row")
+	}
+	nk := len(head)
+	head = append(head, "column", "want", "got", "Δabs", "Δrel")
+	rows := [][]string{head}
+	edits := map[int]string{}
+	right := map[int]bool{nk + 3: true, nk + 4: true}
+	if !keyed {
+		right[0] = true
+	}
+	for i, c := range d.Cells {
+		var row []string
+		if keyed {
+			row = append(row, c.Row.Key...)
+		} else {
+			row = append(row, d.rowIndex(c.Row))
+		}
+		abs, rel := "", ""
+		if c.Delta.Has {
+			abs = formatAbs(c.Delta.Abs, c.Want.Kind)
+			if c.Delta.HasULPs {
+				abs += " (" + strconv.FormatUint(c.Delta.ULPs, 10) + " ulp)"
+			}
+			if !isTimeKind(c.Want.Kind) && !isTimeKind(c.Got.Kind) {
+				rel = formatRel(c.Delta.Rel)
+			}
+		}
+		row = append(row, c.Column, c.Want.Text, c.Got.Text, abs, rel)
+		rows = append(rows, row)
+		if c.Want.Kind.IsText() && c.Got.Kind.IsText() && !c.Want.Null && !c.Got.Null {
+			ws, _ := c.Want.Value.(string)
+			gs, _ := c.Got.Value.(string)
+			st := editStyle{}
+			if w.st.Color {
+				st = editStyle{want: ansiWant, got: ansiGot, reset: ansiReset}
+			}
+			if e, ok := textEdit(ws, gs, st); ok {
+				edits[i+1] = e
+			}
+		}
+	}
+	w.tableWith(rows, right, map[int]string{nk + 1: ansiWant, nk + 2: ansiGot}, func(row int, indent int) {
+		if e, ok := edits[row]; ok {
+			w.line(strings.Repeat(" ", indent) + "edit: " + e)
+		}
+	})
+}
+
+func (d *Diff) rowIndex(r RowRef) string {
+	if r.Want != r.Got && r.Got >= 0 {
+		return fmt.Sprintf("%d→%d", r.Want, r.Got)
+	}
+	return strconv.Itoa(r.Want)
+}
+
+// rowList writes missing or extra rows as a small table of their cells.
+func (w *textWriter) rowList(d *Diff, title, note string, l RowList, cols []string, colour string) {
+	if l.Count == 0 {
+		return
+	}
+	w.section(fmt.Sprintf("%s (%d, %s)%s", title, l.Count, note, shown(len(l.Rows), l.Count)))
+	rows := [][]string{append([]string{"row"}, cols...)}
+	for _, r := range l.Rows {
+		idx := r.Want
+		if idx < 0 {
+			idx = r.Got
+		}
+		rows = append(rows, append([]string{strconv.Itoa(idx)}, r.Cells...))
+	}
+	paint := map[int]string{}
+	for j := range cols {
+		paint[j+1] = colour
+	}
+	w.table(rows, map[int]bool{0: true}, paint)
+}
+
+// textWriter builds the text report.
+type textWriter struct {
+	st TextStyle
+	b  strings.Builder
+}
+
+func (w *textWriter) line(s string) { w.b.WriteString(s + "\n") }
+
+func (w *textWriter) section(title string) {
+	w.line("")
+	w.line(w.bold(title))
+}
+
+func (w *textWriter) bold(s string) string { return w.paint(ansiBold, s) }
+
+func (w *textWriter) paint(code, s string) string {
+	if !w.st.Color || s == "" {
+		return s
+	}
+	return code + s + ansiReset
+}
+
+func (w *textWriter) table(rows [][]string, right map[int]bool, paint map[int]string) {
+	w.tableWith(rows, right, paint, nil)
+}
+
+// tableWith writes rows (the first is the header) as aligned columns two
+// spaces apart, indented by two, cutting the widest columns until the lines
+// fit the width. after, when set, is called after each body row with its
+// index and the indent of the third column.
+func (w *textWriter) tableWith(rows [][]string, right map[int]bool, paint map[int]string, after func(row, indent int)) {
+	if len(rows) == 0 {
+		return
+	}
+	ncol := 0
+	for _, r := range rows {
+		ncol = max(ncol, len(r))
+	}
+	widths := make([]int, ncol)
+	for _, r := range rows {
+		for j, s := range r {
+			widths[j] = max(widths[j], textwidth.Width(s))
+		}
+	}
+	fitWidths(widths, w.st.Width-2)
+	for i, r := range rows {
+		var b strings.Builder
+		b.WriteString("  ")
+		for j := 0; j < ncol; j++ {
+			s := ""
+			if j < len(r) {
+				s = textwidth.Truncate(r[j], widths[j])
+			}
+			pad := textwidth.PadRight
+			if right[j] {
+				pad = textwidth.PadLeft
+			}
+			if j == ncol-1 && !right[j] {
+				pad = func(s string, _ int) string { return s }
+			}
+			cell := pad(s, widths[j])
+			switch {
+			case i == 0:
+				cell = w.bold(cell)
+			case paint[j] != "":
+				cell = w.paint(paint[j], cell)
+			}
+			b.WriteString(cell)
+			if j < ncol-1 {
+				b.WriteString("  ")
+			}
+		}
+		w.line(strings.TrimRight(b.String(), " "))
+		if after != nil && i > 0 {
+			indent := 2
+			for j := 0; j < min(ncol, 1); j++ {
+				indent += widths[j] + 2
+			}
+			after(i, indent)
+		}
+	}
+}
+
+// fitWidths narrows the widest columns until the columns, two spaces
+// apart, fit in total; no column goes below 8 unless it already was.
+func fitWidths(widths []int, total int) {
+	sum := func() int {
+		n := 0
+		for _, x := range widths {
+			n += x
+		}
+		return n + 2*(len(widths)-1)
+	}
+	for sum() > total {
+		wi := 0
+		for j, x := range widths {
+			if x > widths[wi] {
+				wi = j
+			}
+		}
+		if widths[wi] <= 8 {
+			return
+		}
+		widths[wi]--
+	}
+}
+
+// UseColor reports whether text written to f should be coloured: f is a
+// terminal (a character device) and the NO_COLOR environment variable is
+// unset or empty (the convention of no-color.org). Pass the answer as
+// TextStyle.Color.
+func UseColor(f *os.File) bool {
+	if f == nil || os.Getenv("NO_COLOR") != "" {
+		return false
+	}
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}

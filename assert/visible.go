@@ -1,0 +1,127 @@
+package assert
+
+import (
+	"fmt"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+
+	"github.com/sergi/go-diff/diffmatchpatch"
+)
+
+// Markers that make invisible characters visible in text edits. They are
+// spelled between ⟨ and ⟩ so that they cannot be mistaken for the text.
+var invisibleNames = map[rune]string{
+	'\t':     "tab",
+	'\r':     "cr",
+	'\n':     "lf",
+	'\u00a0': "nbsp",
+	'\u00ad': "shy",
+	'\u200b': "zwsp",
+	'\u200c': "zwnj",
+	'\u200d': "zwj",
+	'\u2060': "wj",
+	'\ufeff': "bom",
+}
+
+// visibleRune returns the marker of an invisible rune, or "" for a rune
+// that shows as itself.
+func visibleRune(r rune) string {
+	if name, ok := invisibleNames[r]; ok {
+		return "⟨" + name + "⟩"
+	}
+	if r == ' ' {
+		return ""
+	}
+	if unicode.IsControl(r) || unicode.Is(unicode.Cf, r) || unicode.Is(unicode.Zs, r) || unicode.Is(unicode.Zl, r) || unicode.Is(unicode.Zp, r) {
+		return fmt.Sprintf("⟨U+%04X⟩", r)
+	}
+	return ""
+}
+
+// visible writes s with its invisible characters as markers. Spaces are
+// shown as ⟨sp⟩ when allSpaces is set; otherwise only spaces at the start
+// (lead) or the end (trail) of s are.
+func visible(s string, allSpaces, lead, trail bool) string {
+	var b strings.Builder
+	first := len(s) - len(strings.TrimLeft(s, " "))
+	last := len(strings.TrimRight(s, " "))
+	for i := 0; i < len(s); {
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			fmt.Fprintf(&b, "⟨0x%02X⟩", s[i])
+		case r == ' ' && (allSpaces || (lead && i < first) || (trail && i >= last)):
+			b.WriteString("⟨sp⟩")
+		default:
+			if m := visibleRune(r); m != "" {
+				b.WriteString(m)
+			} else {
+				b.WriteRune(r)
+			}
+		}
+		i += size
+	}
+	return b.String()
+}
+
+// Edit markers: a changed stretch of text is written ⟦want→got⟧, with
+// either side empty for a pure deletion or insertion.
+const (
+	editOpen  = "⟦"
+	editArrow = "→"
+	editClose = "⟧"
+)
+
+// editStyle colours the parts of an edit; the zero value writes plain text.
+type editStyle struct {
+	want, got, reset string
+}
+
+// textEdit returns a one-line character edit from want to got: common text
+// as it is, changed stretches as ⟦want→got⟧, invisible characters as
+// markers. ok is false when the strings share too little for an edit to
+// help (then both are best read whole).
+func textEdit(want, got string, st editStyle) (line string, ok bool) {
+	dmp := diffmatchpatch.New()
+	diffs := dmp.DiffMain(want, got, false)
+	diffs = dmp.DiffCleanupSemantic(diffs)
+	common := 0
+	for _, d := range diffs {
+		if d.Type == diffmatchpatch.DiffEqual {
+			common += utf8.RuneCountInString(d.Text)
+		}
+	}
+	longest := max(utf8.RuneCountInString(want), utf8.RuneCountInString(got))
+	if common == 0 || common*3 < longest {
+		return "", false
+	}
+	var b strings.Builder
+	n := len(diffs)
+	for i := 0; i < n; i++ {
+		d := diffs[i]
+		if d.Type == diffmatchpatch.DiffEqual {
+			b.WriteString(visible(d.Text, false, i == 0, i == n-1))
+			continue
+		}
+		var del, ins string
+		for ; i < n && diffs[i].Type != diffmatchpatch.DiffEqual; i++ {
+			if diffs[i].Type == diffmatchpatch.DiffDelete {
+				del += diffs[i].Text
+			} else {
+				ins += diffs[i].Text
+			}
+		}
+		i--
+		b.WriteString(editOpen)
+		if del != "" {
+			b.WriteString(st.want + visible(del, true, true, true) + st.reset)
+		}
+		b.WriteString(editArrow)
+		if ins != "" {
+			b.WriteString(st.got + visible(ins, true, true, true) + st.reset)
+		}
+		b.WriteString(editClose)
+	}
+	return b.String(), true
+}
