@@ -282,8 +282,8 @@ func (c *comparison) matchByKey() {
 	for i := range gOf {
 		gOf[i] = -1
 	}
-	next := map[int32]int{}          // heads with several want rows: how many are taken
-	gotMore := map[int32][]int32{}   // want head → later got rows with its key
+	next := map[int32]int{}        // heads with several want rows: how many are taken
+	gotMore := map[int32][]int32{} // want head → later got rows with its key
 	matched := make([]uint64, (ng+63)/64)
 	for j, head := range g.gotHead {
 		if head < 0 {
