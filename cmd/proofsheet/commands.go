@@ -1,0 +1,4 @@
+package main
+
+// moreCommands returns the subcommands beyond profile.
+func moreCommands() []*command { return nil }
