@@ -4,6 +4,7 @@ go 1.26.0
 
 require (
 	github.com/apache/arrow/go/v17 v17.0.0
+	github.com/leanovate/gopter v0.2.11
 	github.com/sergi/go-diff v1.4.0
 	github.com/stretchr/testify v1.12.1
 	golang.org/x/text v0.44.0

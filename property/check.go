@@ -1,0 +1,277 @@
+package property
+
+import (
+	"fmt"
+	"os"
+	"regexp"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/leanovate/gopter"
+	"github.com/leanovate/gopter/prop"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// SeedEnv is the environment variable that fixes the seed of Check and
+// CheckFiles, to re-run a failure: PROOFSHEET_SEED=1234 go test -run …
+const SeedEnv = "PROOFSHEET_SEED"
+
+// TB is the part of testing.TB that Check uses.
+type TB interface {
+	Helper()
+	Errorf(format string, args ...any)
+	Name() string
+}
+
+// tableTrial makes the trial of a table function on a sample.
+func tableTrial(fn Func, s *Sample) *trial {
+	run := func(t *fixtures.Table) outcome {
+		if fn == nil {
+			return outcome{err: errNilFunc}
+		}
+		return call(func() (*fixtures.Table, error) { return fn(t) })
+	}
+	return &trial{
+		sample: s,
+		run:    func(s *Sample) outcome { return run(s.Raw()) },
+		again:  run,
+	}
+}
+
+// fileTrial makes the trial of a file function on a generated file: each
+// sample variant is written in the file's style.
+func fileTrial(fn FileFunc, f *File) *trial {
+	feed := func(data []byte) outcome {
+		if fn == nil {
+			return outcome{err: errNilFunc}
+		}
+		return call(func() (*fixtures.Table, error) { return fn(f.Name(), data) })
+	}
+	return &trial{
+		sample: f.Sample,
+		run: func(s *Sample) outcome {
+			if s == f.Sample {
+				return feed(f.Data)
+			}
+			data, err := s.CSV(f.Style)
+			if err != nil {
+				return outcome{err: err}
+			}
+			return feed(data)
+		},
+		again: func(t *fixtures.Table) outcome {
+			data, err := TableCSV(t, f.Style)
+			if err != nil {
+				return outcome{err: fmt.Errorf("writing the output as CSV: %w", err)}
+			}
+			return feed(data)
+		},
+	}
+}
+
+// verdicts checks all invariants on one trial; "" when all hold.
+func verdicts(tr *trial, invs []Invariant) string {
+	if len(invs) == 0 {
+		invs = []Invariant{NoPanic()}
+	}
+	for _, inv := range invs {
+		if m := inv.verdict(tr); m != "" {
+			return inv.name + ": " + m
+		}
+	}
+	return ""
+}
+
+func result(msg string) *gopter.PropResult {
+	if msg == "" {
+		return &gopter.PropResult{Status: gopter.PropTrue}
+	}
+	return &gopter.PropResult{Status: gopter.PropFalse, Labels: []string{msg}}
+}
+
+// Prop returns a gopter property that the table function has all the
+// invariants (NoPanic when none is given) on every sample gen draws. gen
+// must draw *Sample values, as Tables does; failing samples shrink with
+// gen's shrinker. Use it inside your own gopter.Properties:
+//
+//	props := gopter.NewProperties(nil)
+//	props.Property("cleanup", property.Prop(clean, property.Tables(schema, opts), property.Idempotent()))
+//	props.TestingRun(t)
+func Prop(fn Func, gen gopter.Gen, invs ...Invariant) gopter.Prop {
+	return prop.ForAll(func(s *Sample) *gopter.PropResult {
+		return result(verdicts(tableTrial(fn, s), invs))
+	}, gen)
+}
+
+// FileProp is Prop for a file function; gen must draw *File values, as
+// Files does.
+func FileProp(fn FileFunc, gen gopter.Gen, invs ...Invariant) gopter.Prop {
+	return prop.ForAll(func(f *File) *gopter.PropResult {
+		return result(verdicts(fileTrial(fn, f), invs))
+	}, gen)
+}
+
+// seedFor returns the seed of a check: PROOFSHEET_SEED, else opts.Seed,
+// else the clock.
+func seedFor(opts Options) (int64, string, error) {
+	if v, ok := os.LookupEnv(SeedEnv); ok && strings.TrimSpace(v) != "" {
+		n, err := strconv.ParseInt(strings.TrimSpace(v), 10, 64)
+		if err != nil {
+			return 0, "", fmt.Errorf("property: %s=%q is not a 64-bit integer", SeedEnv, v)
+		}
+		return n, "from " + SeedEnv, nil
+	}
+	if opts.Seed != 0 {
+		return opts.Seed, "from Options.Seed", nil
+	}
+	return time.Now().UnixNano(), "from the clock", nil
+}
+
+// Check tests a table function against the invariants (NoPanic when none
+// is given) on Options.Runs generated samples of the schema, each
+// invariant on its own. A failing sample is shrunk; the report gives the
+// seed, how to re-run with it, why the invariant failed and the shrunk raw
+// table as code ready to paste into a regression test. Check returns
+// whether every invariant held.
+func Check(t TB, schema fixtures.Schema, fn Func, opts Options, invs ...Invariant) bool {
+	t.Helper()
+	return check(t, schema, opts, invs, func(inv Invariant) (gopter.Prop, string) {
+		return Prop(fn, Tables(schema, opts), inv), "table"
+	})
+}
+
+// CheckFiles is Check for a function that reads raw CSV bytes, as a loader
+// followed by the chain does. Each sample is written in a random CSV style
+// (delimiter, quoting, encoding, line ending), or in one of the given
+// styles; shrinking also makes the style plainer.
+func CheckFiles(t TB, schema fixtures.Schema, fn FileFunc, opts Options, invs []Invariant, styles ...CSVStyle) bool {
+	t.Helper()
+	return check(t, schema, opts, invs, func(inv Invariant) (gopter.Prop, string) {
+		return FileProp(fn, Files(schema, opts, styles...), inv), "file"
+	})
+}
+
+func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func(Invariant) (gopter.Prop, string)) bool {
+	t.Helper()
+	c, err := opts.compile(schema)
+	if err != nil {
+		t.Errorf("%v", err)
+		return false
+	}
+	seed, from, err := seedFor(opts)
+	if err != nil {
+		t.Errorf("%v", err)
+		return false
+	}
+	if len(invs) == 0 {
+		invs = []Invariant{NoPanic()}
+	}
+	ok := true
+	for _, inv := range invs {
+		params := gopter.DefaultTestParametersWithSeed(seed)
+		params.MinSuccessfulTests = c.runs
+		params.MinSize = c.minRows
+		params.MaxSize = c.maxRows
+		p, _ := mk(inv)
+		res := p.Check(params)
+		if res.Passed() {
+			continue
+		}
+		ok = false
+		t.Errorf("%s", report(t.Name(), inv, seed, from, res))
+	}
+	return ok
+}
+
+// report writes a failed check for a person to act on.
+func report(test string, inv Invariant, seed int64, from string, res *gopter.TestResult) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "property: invariant %q failed after %d passing samples\n", inv.name, res.Succeeded)
+	fmt.Fprintf(&b, "seed %d (%s); re-run with: %s=%d go test -run '%s'\n", seed, from, SeedEnv, seed, runPattern(test))
+	switch res.Status {
+	case gopter.TestError:
+		fmt.Fprintf(&b, "error: %v\n", res.Error)
+		return b.String()
+	case gopter.TestExhausted:
+		fmt.Fprintf(&b, "no usable sample after %d tries (%s)\n", res.Discarded, strings.Join(res.Labels, "; "))
+		return b.String()
+	}
+	for _, l := range res.Labels {
+		b.WriteString(strings.TrimRight(l, "\n"))
+		b.WriteByte('\n')
+	}
+	if len(res.Args) == 0 {
+		return b.String()
+	}
+	arg := res.Args[0]
+	switch v := arg.Arg.(type) {
+	case *Sample:
+		orig, _ := arg.OrigArg.(*Sample)
+		describeShrink(&b, orig, v, arg.Shrinks)
+		b.WriteString(indentLines(PasteReady("raw", v.Raw()), "\t"))
+	case *File:
+		orig, _ := arg.OrigArg.(*File)
+		var first *Sample
+		if orig != nil {
+			first = orig.Sample
+			fmt.Fprintf(&b, "the file was %s\n", orig.Style)
+		}
+		describeShrink(&b, first, v.Sample, arg.Shrinks)
+		fmt.Fprintf(&b, "\tdata := []byte(%s) // %s\n", describeBytes(v.Data, 4096), v.Style)
+		b.WriteString("the raw table it holds:\n")
+		b.WriteString(indentLines(PasteReady("raw", v.Sample.Raw()), "\t"))
+	}
+	return b.String()
+}
+
+func describeShrink(b *strings.Builder, orig, s *Sample, steps int) {
+	if orig != nil {
+		fmt.Fprintf(b, "sample seed %d: %d rows × %d columns", orig.Seed, orig.NumRows(), orig.NumCols())
+		fmt.Fprintf(b, ", shrunk in %d steps to %d rows × %d columns; paste it into a test:\n", steps, s.NumRows(), s.NumCols())
+		return
+	}
+	fmt.Fprintf(b, "shrunk in %d steps to %d rows × %d columns; paste it into a test:\n", steps, s.NumRows(), s.NumCols())
+}
+
+// runPattern returns a go test -run pattern matching exactly the test.
+func runPattern(name string) string {
+	parts := strings.Split(name, "/")
+	for i, p := range parts {
+		parts[i] = "^" + regexp.QuoteMeta(p) + "$"
+	}
+	return strings.Join(parts, "/")
+}
+
+// PasteReady writes a table as Go code that rebuilds it in a test:
+//
+//	raw := fixtures.MustParse(t, `
+//		house:string | tmax:string
+//		Étang        | "1,5"
+//	`)
+//
+// The table is fixtures.LiteralWith a tab indent inside a raw string;
+// fixtures.Parse reads the part between the backquotes back to the same
+// table. name is the variable (default "raw").
+func PasteReady(name string, t *fixtures.Table) string {
+	if name == "" {
+		name = "raw"
+	}
+	lit := t.LiteralWith(fixtures.LiteralStyle{Pad: true, Indent: "\t"})
+	return name + " := fixtures.MustParse(t, `\n" + lit + "`)\n"
+}
+
+// indentLines puts by before every non-empty line of s.
+func indentLines(s, by string) string {
+	lines := strings.SplitAfter(s, "\n")
+	var b strings.Builder
+	for _, l := range lines {
+		if l == "" {
+			continue
+		}
+		b.WriteString(by)
+		b.WriteString(l)
+	}
+	return b.String()
+}

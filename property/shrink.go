@@ -1,0 +1,290 @@
+package property
+
+import (
+	"slices"
+
+	"github.com/leanovate/gopter"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// The shrink order, for a sample: drop rows (all of them, then halves,
+// quarters, … down to single rows), drop columns, spell header names
+// plainly, spell cells plainly. Each stream is lazy, so a check runs the
+// function only on the candidates it needs; a greedy search takes the
+// first candidate that still fails and starts again from it.
+
+// shrinkStream returns the candidates smaller than s, in shrink order.
+func shrinkStream(s *Sample) func() (*Sample, bool) {
+	n := len(s.rows)
+	stage := 0
+	k, start := n, 0 // row chunk size and position
+	j := 0           // column
+	ci, cj := 0, 0   // cell
+	return func() (*Sample, bool) {
+		for {
+			switch stage {
+			case 0: // rows
+				if k < 1 {
+					stage++
+					continue
+				}
+				if start >= n {
+					k /= 2
+					start = 0
+					continue
+				}
+				end := min(start+k, n)
+				rows := make([]rawRow, 0, n-(end-start))
+				rows = append(append(rows, s.rows[:start]...), s.rows[end:]...)
+				start += k
+				return s.derive(s.cols, rows), true
+			case 1: // columns
+				if len(s.cols) < 2 || j >= len(s.cols) {
+					stage++
+					j = 0
+					continue
+				}
+				d := j
+				j++
+				return s.withoutColumn(d), true
+			case 2: // header names
+				if j >= len(s.cols) {
+					stage++
+					continue
+				}
+				d := j
+				j++
+				if s.cols[d].name == s.cols[d].plain {
+					continue
+				}
+				cols := slices.Clone(s.cols)
+				cols[d].name = cols[d].plain
+				return s.derive(cols, s.rows), true
+			case 3: // cells
+				if ci >= len(s.rows) {
+					stage++
+					continue
+				}
+				i, jj := ci, cj
+				if cj++; cj >= len(s.cols) {
+					cj = 0
+					ci++
+				}
+				c := s.rows[i].cells[jj]
+				p := plainCell(c, s.colType(jj))
+				if p == c {
+					continue
+				}
+				rows := slices.Clone(s.rows)
+				cells := slices.Clone(rows[i].cells)
+				cells[jj] = p
+				rows[i].cells = cells
+				return s.derive(s.cols, rows), true
+			default:
+				return nil, false
+			}
+		}
+	}
+}
+
+// withoutColumn returns s without raw column d.
+func (s *Sample) withoutColumn(d int) *Sample {
+	cols := slices.Delete(slices.Clone(s.cols), d, d+1)
+	w := len(cols)
+	cells := make([]Messy, len(s.rows)*w)
+	rows := make([]rawRow, len(s.rows))
+	for i, r := range s.rows {
+		row := cells[i*w : (i+1)*w : (i+1)*w]
+		copy(row, r.cells[:d])
+		copy(row[d:], r.cells[d+1:])
+		rows[i] = rawRow{rec: r.rec, cells: row}
+	}
+	return s.derive(cols, rows)
+}
+
+// SampleShrinker is the gopter.Shrinker of *Sample values: it offers the
+// candidates in the order described at Shrink.
+func SampleShrinker(v any) gopter.Shrink {
+	next := shrinkStream(v.(*Sample))
+	return func() (any, bool) {
+		s, ok := next()
+		if !ok {
+			return nil, false
+		}
+		return s, true
+	}
+}
+
+// maxShrinkSteps bounds a standalone shrink, as gopter's MaxShrinkCount
+// bounds its own.
+const maxShrinkSteps = 10000
+
+// Shrink returns the smallest sample it finds for which fails still
+// reports true, starting from s (which should fail), and the number of
+// steps taken. It tries, in order: dropping rows (all, then halves,
+// quarters, … single rows), dropping columns, spelling header names
+// plainly and spelling cells plainly, taking the first candidate that
+// fails and starting again from it until none does.
+func Shrink(s *Sample, fails func(*Sample) bool) (*Sample, int) {
+	steps := 0
+	for steps < maxShrinkSteps {
+		next := shrinkStream(s)
+		found := false
+		for c, ok := next(); ok; c, ok = next() {
+			if fails(c) {
+				s, found = c, true
+				steps++
+				break
+			}
+		}
+		if !found {
+			break
+		}
+	}
+	return s, steps
+}
+
+// ShrinkTable shrinks any table for which fails reports true by dropping
+// rows (all, halves, … single rows) and columns, and returns the smallest
+// failing table found and the number of steps. It knows no clean values,
+// so it leaves cells as they are; use Shrink for generated samples.
+func ShrinkTable(t *fixtures.Table, fails func(*fixtures.Table) bool) (*fixtures.Table, int) {
+	steps := 0
+	for steps < maxShrinkSteps {
+		c, ok := firstFailing(t, fails)
+		if !ok {
+			break
+		}
+		t = c
+		steps++
+	}
+	return t, steps
+}
+
+func firstFailing(t *fixtures.Table, fails func(*fixtures.Table) bool) (*fixtures.Table, bool) {
+	n := t.NumRows()
+	for k := n; k >= 1; k /= 2 {
+		for start := 0; start < n; start += k {
+			end := min(start+k, n)
+			idx := make([]int, 0, n-(end-start))
+			for i := 0; i < n; i++ {
+				if i < start || i >= end {
+					idx = append(idx, i)
+				}
+			}
+			c, err := t.Take(idx)
+			if err == nil && fails(c) {
+				return c, true
+			}
+		}
+	}
+	if t.NumCols() > 1 {
+		for _, name := range t.Names() {
+			c, err := t.Drop(name)
+			if err == nil && fails(c) {
+				return c, true
+			}
+		}
+	}
+	return nil, false
+}
+
+// fileStream returns the candidates smaller than f: the sample's row
+// candidates, then the style made plain (UTF-8, comma, minimal quoting,
+// LF, one at a time), then the sample's other candidates, each written in
+// the file's style. Candidates that cannot be written are skipped.
+func fileStream(f *File) func() (*File, bool) {
+	next := shrinkStream(f.Sample)
+	rowsLeft := len(f.Sample.rows) // the sample stream's first candidates are row drops
+	var rowCands int
+	for k := rowsLeft; k >= 1; k /= 2 {
+		rowCands += (rowsLeft + k - 1) / k
+	}
+	styles := plainerStyles(f.Style)
+	taken := 0
+	return func() (*File, bool) {
+		for {
+			if taken == rowCands && len(styles) > 0 {
+				st := styles[0]
+				styles = styles[1:]
+				data, err := f.Sample.CSV(st)
+				if err != nil {
+					continue
+				}
+				return &File{Data: data, Style: st, Sample: f.Sample}, true
+			}
+			s, ok := next()
+			if !ok {
+				return nil, false
+			}
+			taken++
+			data, err := s.CSV(f.Style)
+			if err != nil {
+				continue
+			}
+			return &File{Data: data, Style: f.Style, Sample: s}, true
+		}
+	}
+}
+
+// plainerStyles returns st with one of its parts made plain, for each part
+// that is not.
+func plainerStyles(st CSVStyle) []CSVStyle {
+	var out []CSVStyle
+	if st.Encoding != fixtures.EncodingUTF8 {
+		c := st
+		c.Encoding = fixtures.EncodingUTF8
+		out = append(out, c)
+	}
+	if st.Delimiter != ',' {
+		c := st
+		c.Delimiter = ','
+		out = append(out, c)
+	}
+	if st.Quoting != QuoteMinimal {
+		c := st
+		c.Quoting = QuoteMinimal
+		out = append(out, c)
+	}
+	if st.LineEnding != LF {
+		c := st
+		c.LineEnding = LF
+		out = append(out, c)
+	}
+	return out
+}
+
+// FileShrinker is the gopter.Shrinker of *File values: the sample shrinks
+// as SampleShrinker does and the style towards UTF-8, comma, minimal
+// quoting and LF.
+func FileShrinker(v any) gopter.Shrink {
+	next := fileStream(v.(*File))
+	return func() (any, bool) {
+		f, ok := next()
+		if !ok {
+			return nil, false
+		}
+		return f, true
+	}
+}
+
+// ShrinkFile is Shrink for a generated file.
+func ShrinkFile(f *File, fails func(*File) bool) (*File, int) {
+	steps := 0
+	for steps < maxShrinkSteps {
+		next := fileStream(f)
+		found := false
+		for c, ok := next(); ok; c, ok = next() {
+			if fails(c) {
+				f, found = c, true
+				steps++
+				break
+			}
+		}
+		if !found {
+			break
+		}
+	}
+	return f, steps
+}
