@@ -173,34 +173,29 @@ func (c *check) settle(r result, encode func() ([]byte, error)) bool {
 		return c.pass(status, r.diffRec)
 	}
 	var msg strings.Builder
+	var hint string
 	status := StatusChanged
 	switch {
 	case !r.exists:
 		status = StatusMissing
-		fmt.Fprintf(&msg, "golden: %s does not exist (golden name %q).\n", c.show, c.name)
+		fmt.Fprintf(&msg, "golden: %s does not exist (golden name %q).", c.show, c.name)
+		hint = "Create it from got, and review it before you commit it; from the module root run:"
 	case r.bad != nil:
 		status = StatusInvalid
-		fmt.Fprintf(&msg, "golden: cannot read %s: %v\nFix the file, or", c.show, r.bad)
+		fmt.Fprintf(&msg, "golden: cannot read %s: %v", c.show, r.bad)
+		hint = "Fix the file, or rewrite it from got; from the module root run:"
 	default:
-		fmt.Fprintf(&msg, "golden: %s: got differs from the golden file (want):\n%s", c.show, strings.TrimRight(r.diff, "\n"))
-		msg.WriteString("\nIf the change is intended,")
+		fmt.Fprintf(&msg, "golden: %s: got differs from the golden file (want):\n%s\n", c.show, strings.TrimRight(r.diff, "\n"))
+		hint = "If the change is intended, rewrite the file and review it in your diff; from the module root run:"
 	}
 	if err := c.mode.refusal(); err != nil {
 		if status != StatusInvalid {
 			status = StatusRefused
 		}
 		fmt.Fprintf(&msg, "\nNot updated: %v.", err)
-		c.fail(status, r.diffRec, "%s", msg.String())
-		return false
-	}
-	if r.exists && r.bad == nil {
-		msg.WriteString(" rewrite the file and review it in your diff; from the module root run:\n")
-	} else if r.exists {
-		msg.WriteString(" rewrite it from got; from the module root run:\n")
 	} else {
-		msg.WriteString("Create it from got and review it; from the module root run:\n")
+		fmt.Fprintf(&msg, "\n%s\n\t%s", hint, updateCommand(c.t.Name()))
 	}
-	msg.WriteString("\t" + updateCommand(c.t.Name()))
 	c.fail(status, r.diffRec, "%s", msg.String())
 	return false
 }

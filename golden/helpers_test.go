@@ -59,7 +59,7 @@ func (*fakeB) ReportMetric(float64, string) {}
 // quietEnv clears every variable and the flag that change the mode, so a
 // test sees plain check mode whatever the caller's environment (CI=true,
 // -update) is; update turns update mode on.
-func quietEnv(t *testing.T, update bool) {
+func quietEnv(t testing.TB, update bool) {
 	t.Helper()
 	for _, v := range []string{EnvUpdate, EnvUpdateInCI, EnvCI, EnvRecords, EnvStale} {
 		t.Setenv(v, "")

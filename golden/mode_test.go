@@ -4,6 +4,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -70,7 +71,10 @@ func TestSecondUpdateFlagPanics(t *testing.T) {
 	// own -update next to ours panics at init with "flag redefined:
 	// update". Source: the flag package's FlagSet.Var, which panics on a
 	// name defined twice.
+	out := flag.CommandLine.Output()
+	flag.CommandLine.SetOutput(io.Discard) // the flag package prints the message too
 	defer func() {
+		flag.CommandLine.SetOutput(out)
 		r := recover()
 		require.NotNil(t, r)
 		require.Contains(t, fmt.Sprint(r), "flag redefined: update")

@@ -179,7 +179,12 @@ type M interface {
 // os.Exit.
 func RunTests(m M) int {
 	code := m.Run()
-	return sweep(os.Stderr, code, os.Getenv(EnvStale), currentMode(), partialRun())
+	roots := runState.usedRoots()
+	if def, err := (Store{}).absRoot(); err == nil && !slices.Contains(roots, def) {
+		roots = append(roots, def)
+		slices.Sort(roots)
+	}
+	return sweep(os.Stderr, code, os.Getenv(EnvStale), currentMode(), partialRun(), roots)
 }
 
 // partialRun names the flag that made this run select only some tests, or
@@ -193,8 +198,8 @@ func partialRun() string {
 	return ""
 }
 
-// sweep is RunTests after m.Run.
-func sweep(w io.Writer, code int, what string, m mode, partial string) int {
+// sweep is RunTests after m.Run, over the given golden directories.
+func sweep(w io.Writer, code int, what string, m mode, partial string, roots []string) int {
 	what = strings.ToLower(strings.TrimSpace(what))
 	switch what {
 	case "":
@@ -215,11 +220,6 @@ func sweep(w io.Writer, code int, what string, m mode, partial string) int {
 	if what == "prune" && m.ci != "" && !m.forced {
 		fmt.Fprintf(w, "golden: prune refused: %s=%s is set; set %s=1 to force it\n", EnvCI, m.ci, EnvUpdateInCI)
 		return max(code, 1)
-	}
-	roots := runState.usedRoots()
-	if def, err := (Store{}).absRoot(); err == nil && !slices.Contains(roots, def) {
-		roots = append(roots, def)
-		slices.Sort(roots)
 	}
 	found := 0
 	for _, root := range roots {

@@ -152,7 +152,7 @@ func TestSweep(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			writeFile(t, stalePath, "old\n")
 			var out bytes.Buffer
-			require.Equal(t, c.wantCode, sweep(&out, c.code, c.what, c.m, c.partial))
+			require.Equal(t, c.wantCode, sweep(&out, c.code, c.what, c.m, c.partial, []string{s.Root}))
 			require.Contains(t, out.String(), c.wantOut)
 			if c.removed {
 				require.NoFileExists(t, stalePath)

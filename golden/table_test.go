@@ -1,0 +1,225 @@
+package golden
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/stretchr/testify/require"
+)
+
+// daily is a demo-like daily table per house; variant "noise" moves tmean
+// by a rounding error, "change" changes a value for real, "reordered"
+// lists the rows in another order.
+func daily(t testing.TB, variant string) *fixtures.Table {
+	t.Helper()
+	tmean := "15.125"
+	tmax := "21.5"
+	switch variant {
+	case "noise":
+		tmean = "15.125000000000002" // 15.125 + 1 ulp-ish rounding noise
+	case "change":
+		tmax = "22.5"
+	}
+	rows := []string{
+		"Étang | 2026-04-01 | 8.75 | " + tmax + " | " + tmean + " | 140 | 4",
+		"Les Pins | 2026-04-01 | 7.5 | 19.25 | 13.375 | 144 | 0",
+		"Étang | 2026-04-02 | 9 | 20 | 14.5 | 138 | 6",
+	}
+	if variant == "reordered" {
+		rows[0], rows[2] = rows[2], rows[0]
+	}
+	return fixtures.MustParse(t, "house:string | day:date | tmin:float64 | tmax:float64 | tmean:float64 | kept:int64 | dropped:int64\n"+strings.Join(rows, "\n"))
+}
+
+var dailyOpts = []assert.Option{assert.ByKey("house", "day"), assert.Tol("*", 1e-9, 0)}
+
+func TestTableCheckLifecycle(t *testing.T) {
+	// The issue's "done when": missing fails clearly, -update creates it,
+	// it passes next time, passes on float noise within tolerance, fails on
+	// a real change with the table diff, refuses to update under CI and
+	// refuses an escaping name.
+	quietEnv(t, false)
+	s := tempStore(t)
+	path := filepath.Join(s.Root, "daily", "report.gold.tbl")
+	check := func(variant string, opts ...assert.Option) (bool, *fakeT) {
+		ft := newFake(t)
+		defer ft.end()
+		return s.Table(ft, "daily/report", daily(t, variant), opts...), ft
+	}
+
+	ok, ft := check("base", dailyOpts...)
+	require.False(t, ok)
+	require.Contains(t, ft.failures(), "daily/report.gold.tbl does not exist")
+	require.Contains(t, ft.failures(), "go test ./golden -run '^TestTableCheckLifecycle$/^fake$' -update")
+	require.NoFileExists(t, path)
+
+	*updateFlag = true
+	ok, ft = check("reordered", dailyOpts...)
+	require.True(t, ok, ft.failures())
+	*updateFlag = false
+	stored := readFile(t, path)
+	// Rows are stored sorted by the key, whatever order got had.
+	require.Equal(t, ""+
+		"# proofsheet sheet v1\n"+
+		"# keys: house, day\n"+
+		"# rows: 3\n"+
+		"house:string | day:date | tmin:float64 | tmax:float64 | tmean:float64 | kept:int64 | dropped:int64\n"+
+		"Les Pins | 2026-04-01 | 7.5 | 19.25 | 13.375 | 144 | 0\n"+
+		"Étang | 2026-04-01 | 8.75 | 21.5 | 15.125 | 140 | 4\n"+
+		"Étang | 2026-04-02 | 9 | 20 | 14.5 | 138 | 6\n", stored)
+
+	ok, ft = check("base", dailyOpts...)
+	require.True(t, ok, ft.failures())
+
+	ok, ft = check("noise", dailyOpts...)
+	require.True(t, ok, ft.failures())
+
+	ok, ft = check("noise") // no tolerance: the noise is a difference
+	require.False(t, ok)
+	require.Contains(t, ft.failures(), "tmean")
+
+	ok, ft = check("change", dailyOpts...)
+	require.False(t, ok)
+	msg := ft.failures()
+	require.Contains(t, msg, "got differs from the golden file")
+	require.Contains(t, msg, "tmax")
+	require.Contains(t, msg, "22.5")
+	require.Contains(t, msg, "21.5")
+	require.Contains(t, msg, assert.Compare(daily(t, "base"), daily(t, "change"), dailyOpts...).Text()) // the table diff itself
+	require.Contains(t, msg, "-update")
+
+	t.Setenv(EnvCI, "true")
+	*updateFlag = true
+	ok, ft = check("change", dailyOpts...)
+	require.False(t, ok)
+	require.Contains(t, ft.failures(), "Not updated")
+	require.Equal(t, stored, readFile(t, path))
+	*updateFlag = false
+	t.Setenv(EnvCI, "")
+
+	ft = newFake(t)
+	require.False(t, s.Table(ft, "../daily/report", daily(t, "base"), dailyOpts...))
+	require.Contains(t, ft.failures(), "bad golden name")
+	ft.end()
+}
+
+func TestTableUpdateWithinToleranceLeavesFile(t *testing.T) {
+	quietEnv(t, true)
+	s := tempStore(t)
+	path := filepath.Join(s.Root, "daily.gold.tbl")
+	data, err := EncodeTable(daily(t, "base"), assert.KeyColumns(dailyOpts...))
+	require.NoError(t, err)
+	writeFile(t, path, string(data))
+	old := time.Date(2021, 3, 4, 5, 6, 7, 0, time.UTC)
+	require.NoError(t, os.Chtimes(path, old, old))
+
+	ft := newFake(t)
+	require.True(t, s.Table(ft, "daily", daily(t, "noise"), dailyOpts...), ft.failures())
+	ft.end()
+	st, err := os.Stat(path)
+	require.NoError(t, err)
+	require.True(t, st.ModTime().Equal(old), "file was rewritten")
+	require.Equal(t, string(data), readFile(t, path))
+
+	// A real change is written.
+	ft = newFake(t)
+	require.True(t, s.Table(ft, "daily", daily(t, "change"), dailyOpts...), ft.failures())
+	ft.end()
+	require.Contains(t, readFile(t, path), "| 22.5 |")
+}
+
+func TestTableStoredFileProblems(t *testing.T) {
+	quietEnv(t, false)
+	s := tempStore(t)
+	path := filepath.Join(s.Root, "bad.gold.tbl")
+	writeFile(t, path, "# proofsheet sheet v1\n# keys: -\n# rows: 1\nhouse:string\n")
+	ft := newFake(t)
+	require.False(t, s.Table(ft, "bad", daily(t, "base")))
+	require.Contains(t, ft.failures(), "cannot read")
+	require.Contains(t, ft.failures(), "says rows: 1 but has 0")
+	ft.end()
+
+	// In update mode an unreadable file is rewritten from got.
+	*updateFlag = true
+	ft = newFake(t)
+	require.True(t, s.Table(ft, "bad", daily(t, "base")), ft.failures())
+	ft.end()
+	back, _, err := DecodeTable(path, []byte(readFile(t, path)))
+	require.NoError(t, err)
+	require.True(t, assert.Compare(daily(t, "base"), back).Equal())
+
+	// Options that do not fit got are not written into a file.
+	ft = &fakeT{name: t.Name() + "/badopts"}
+	require.False(t, s.Table(ft, "badopts", daily(t, "base"), assert.ByKey("greenhouse")))
+	require.Contains(t, ft.failures(), "options do not fit got")
+	require.NoFileExists(t, filepath.Join(s.Root, "badopts.gold.tbl"))
+	ft.end()
+
+	ft = &fakeT{name: t.Name() + "/nil"}
+	require.False(t, s.Table(ft, "nil", nil))
+	require.Contains(t, ft.failures(), "nil table")
+	ft.end()
+}
+
+func TestTableRecordCarriesDiff(t *testing.T) {
+	quietEnv(t, false)
+	dir := t.TempDir()
+	t.Setenv(EnvRecords, dir)
+	s := tempStore(t)
+	data, err := EncodeTable(daily(t, "base"), nil)
+	require.NoError(t, err)
+	writeFile(t, filepath.Join(s.Root, "rec.gold.tbl"), string(data))
+	ft := newFake(t)
+	require.False(t, s.Table(ft, "rec", daily(t, "change"), dailyOpts...))
+	ft.end()
+	recs, err := ReadRecords(dir)
+	require.NoError(t, err)
+	require.Len(t, recs, 1)
+	r := recs[0]
+	require.Equal(t, StatusChanged, r.Status)
+	require.Equal(t, KindTable, r.Kind)
+	var d struct {
+		Equal          bool `json:"equal"`
+		CellsDiffering int  `json:"cells_differing"`
+	}
+	require.NoError(t, json.Unmarshal(r.Diff, &d))
+	require.False(t, d.Equal)
+	require.Equal(t, 1, d.CellsDiffering)
+}
+
+func init() {
+	helperScenarios["table"] = func(t *testing.T, s Store, variant string) {
+		s.Table(t, "daily", daily(t, variant), dailyOpts...)
+	}
+}
+
+func TestRealUpdateFlagTable(t *testing.T) {
+	root := t.TempDir()
+	path := filepath.Join(root, "daily.gold.tbl")
+	out, code := runHelper(t, "table", root, "base", nil)
+	require.Equal(t, 1, code, out)
+	require.Contains(t, out, "does not exist")
+
+	out, code = runHelper(t, "table", root, "reordered", nil, "-update")
+	require.Equal(t, 0, code, out)
+	stored := readFile(t, path)
+
+	for _, v := range []string{"base", "noise"} {
+		out, code = runHelper(t, "table", root, v, nil)
+		require.Equal(t, 0, code, "%s: %s", v, out)
+	}
+	out, code = runHelper(t, "table", root, "change", nil)
+	require.Equal(t, 1, code, out)
+	require.Contains(t, out, "tmax")
+
+	out, code = runHelper(t, "table", root, "change", []string{"CI=true"}, "-update")
+	require.Equal(t, 1, code, out)
+	require.Contains(t, out, "Not updated")
+	require.Equal(t, stored, readFile(t, path))
+}
