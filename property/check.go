@@ -228,11 +228,21 @@ func report(test string, inv Invariant, seed int64, from string, res *gopter.Tes
 
 func describeShrink(b *strings.Builder, orig, s *Sample, steps int) {
 	if orig != nil {
-		fmt.Fprintf(b, "sample seed %d: %d rows × %d columns", orig.Seed, orig.NumRows(), orig.NumCols())
-		fmt.Fprintf(b, ", shrunk in %d steps to %d rows × %d columns; paste it into a test:\n", steps, s.NumRows(), s.NumCols())
-		return
+		fmt.Fprintf(b, "sample seed %d: %s, ", orig.Seed, size(orig))
 	}
-	fmt.Fprintf(b, "shrunk in %d steps to %d rows × %d columns; paste it into a test:\n", steps, s.NumRows(), s.NumCols())
+	fmt.Fprintf(b, "shrunk in %d steps to %s; paste it into a test:\n", steps, size(s))
+}
+
+// size says "3 rows × 1 column".
+func size(s *Sample) string {
+	return plural(s.NumRows(), "row") + " × " + plural(s.NumCols(), "column")
+}
+
+func plural(n int, what string) string {
+	if n == 1 {
+		return "1 " + what
+	}
+	return strconv.Itoa(n) + " " + what + "s"
 }
 
 // runPattern returns a go test -run pattern matching exactly the test.

@@ -60,10 +60,10 @@ func TimeToSerial(t time.Time) (float64, error) {
 	if w.Before(serialFirstReal) {
 		base = serialEarly
 	}
-	d := w.Sub(base)
-	days := math.Floor(d.Hours() / 24)
-	rest := d - time.Duration(days)*24*time.Hour
-	return days + float64(rest)/float64(24*time.Hour), nil
+	secs := w.Unix() - base.Unix() // whole seconds: a Duration overflows past 292 years
+	days := floorDiv(secs, 86400)
+	rest := float64(secs-days*86400) + float64(w.Nanosecond())/1e9
+	return float64(days) + rest/86400, nil
 }
 
 // TwoDigitYear gives the century to a two-digit year as POSIX strptime's

@@ -83,12 +83,19 @@ func call(f func() (*fixtures.Table, error)) (o outcome) {
 	return outcome{out: out, err: err}
 }
 
-// trimStack keeps the frames below the recovery, at most 12 lines.
+// trimStack keeps the frames from the one that panicked down to the first
+// frame of this package's own machinery, at most 12 lines.
 func trimStack(s string) string {
-	lines := strings.Split(s, "\n")
+	lines := strings.Split(strings.TrimRight(s, "\n"), "\n")
 	for i, l := range lines {
 		if strings.HasPrefix(l, "panic(") {
-			lines = lines[i:]
+			lines = lines[min(i+2, len(lines)):] // the panic call and its file line
+			break
+		}
+	}
+	for i := 2; i < len(lines); i++ {
+		if strings.HasPrefix(lines[i], "github.com/proofsheet/proofsheet/property.") {
+			lines = lines[:i]
 			break
 		}
 	}

@@ -2,6 +2,7 @@ package property
 
 import (
 	"slices"
+	"strings"
 
 	"github.com/leanovate/gopter"
 
@@ -72,20 +73,48 @@ func shrinkStream(s *Sample) func() (*Sample, bool) {
 					ci++
 				}
 				c := s.rows[i].cells[jj]
+				if peeled, ok := peelEdge(c); ok {
+					// First take off the edge space laid over another mess;
+					// the plain spelling is offered on the next pass.
+					return s.withCell(i, jj, peeled), true
+				}
 				p := plainCell(c, s.colType(jj))
 				if p == c {
 					continue
 				}
-				rows := slices.Clone(s.rows)
-				cells := slices.Clone(rows[i].cells)
-				cells[jj] = p
-				rows[i].cells = cells
-				return s.derive(s.cols, rows), true
+				return s.withCell(i, jj, p), true
 			default:
 				return nil, false
 			}
 		}
 	}
+}
+
+// withCell returns s with cell (i, j) replaced.
+func (s *Sample) withCell(i, j int, c Messy) *Sample {
+	rows := slices.Clone(s.rows)
+	cells := slices.Clone(rows[i].cells)
+	cells[j] = c
+	rows[i].cells = cells
+	return s.derive(s.cols, rows)
+}
+
+// peelEdge takes the edge space off a cell whose mess has edge space on
+// top of another mess.
+func peelEdge(c Messy) (Messy, bool) {
+	parts := c.Mess.Parts()
+	if len(parts) < 2 || parts[len(parts)-1] != MessEdgeSpace {
+		return c, false
+	}
+	raw := strings.TrimFunc(c.Raw, func(r rune) bool { return r == ' ' || r == '\t' || r == '\u00a0' })
+	if raw == c.Raw || raw == "" {
+		return c, false
+	}
+	rest := parts[0]
+	for _, p := range parts[1 : len(parts)-1] {
+		rest = rest.and(p)
+	}
+	return Messy{Raw: raw, Clean: c.Clean, Mess: rest}, true
 }
 
 // withoutColumn returns s without raw column d.

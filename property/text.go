@@ -344,10 +344,14 @@ func (g *colGen) stringValue(r *rng, v *value) {
 			}
 			b = word(b, r)
 		}
-		s := string(b[:c.longText])
-		if !utf8.ValidString(s) { // cut inside a letter: drop the part
-			s = strings.ToValidUTF8(s, "")
+		b = b[:c.longText]
+		for len(b) > 0 && !utf8.Valid(b) { // cut inside a letter: drop its start
+			b = b[:len(b)-1]
 		}
+		for len(b) < c.longText {
+			b = append(b, 'a')
+		}
+		s := string(b)
 		v.clean, v.plain, v.text, v.raw, v.mess, v.fixed = s, s, s, s, MessLong, true
 		return
 	case c.force == MessLineEndings || c.allowed[MessLineEndings] && r.chance(c.messRate*0.08):
