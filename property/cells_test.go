@@ -122,15 +122,15 @@ func decodeNumber(raw string, m Mess) (*big.Rat, error) {
 }
 
 var dateLayouts = map[Mess][]string{
-	MessNone:                            {"2006-01-02"},
-	MessDateSlash:                       {"2006/01/02", "2006.01.02"},
-	MessDayFirst:                        {"02/01/2006", "02.01.2006", "02-01-2006", "2/1/2006"},
-	MessMonthFirst:                      {"01/02/2006", "1/2/2006"},
-	MessDayFirst.and(MessTwoDigitYear):  {"02/01/06", "02.01.06"},
+	MessNone:                             {"2006-01-02"},
+	MessDateSlash:                        {"2006/01/02", "2006.01.02"},
+	MessDayFirst:                         {"02/01/2006", "02.01.2006", "02-01-2006", "2/1/2006"},
+	MessMonthFirst:                       {"01/02/2006", "1/2/2006"},
+	MessDayFirst.and(MessTwoDigitYear):   {"02/01/06", "02.01.06"},
 	MessMonthFirst.and(MessTwoDigitYear): {"01/02/06"},
-	MessMonthName:                       {"2 Jan 2006", "Jan 2, 2006", "02-Jan-2006", "January 2, 2006"},
-	MessCompactDate:                     {"20060102"},
-	MessMidnight:                        {"2006-01-02 15:04:05", "2006-01-02T15:04:05"},
+	MessMonthName:                        {"2 Jan 2006", "Jan 2, 2006", "02-Jan-2006", "January 2, 2006"},
+	MessCompactDate:                      {"20060102"},
+	MessMidnight:                         {"2006-01-02 15:04:05", "2006-01-02T15:04:05"},
 }
 
 // decodeTime returns the instant a messy date or timestamp spells, read in
