@@ -220,6 +220,7 @@ func (c *comparison) checkKeys() bool {
 			bad("key column %q is %s in want but %s in got; key columns must compare exactly", k, wc.Type(), gc.Type())
 			continue
 		}
+		c.cols[i].skip = true
 		c.keyCols = append(c.keyCols, c.cols[i])
 	}
 	return ok

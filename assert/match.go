@@ -2,9 +2,13 @@ package assert
 
 import (
 	"hash/maphash"
+	"maps"
 	"math"
 	"math/bits"
+	"runtime"
 	"slices"
+	"sync"
+	"sync/atomic"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -168,108 +172,219 @@ func (cc *colCmp) eqSides(a Side, i int, b Side, j int) bool {
 	return self.eq(i, j)
 }
 
-// rowTable finds want rows by hash: open addressing with linear probing
-// over slots holding want row indexes (-1 empty).
-type rowTable struct {
-	slots  []int32
-	mask   uint64
-	hashes []uint64 // hash of every want row
+// Grouping is a radix-partitioned hash join: rows of both sides are
+// scattered by the top bits of their hash into partitions small enough for
+// a partition's hash table to stay in the processor's cache, then each
+// partition is joined on its own. Within a partition rows keep their table
+// order, and rows with equal cells always share a partition, so "first
+// row with these cells" means the same as in one big table.
+
+// partitionRows is about how many rows of a side a partition holds.
+const partitionRows = 1024
+
+// partitioned holds one side's rows sorted by partition: hashes and row
+// indexes, with start[p] the first entry of partition p.
+type partitioned struct {
+	h     []uint64
+	row   []int32
+	start []int
 }
 
-func newRowTable(n int) *rowTable {
-	size := 1 << bits.Len(uint(max(2*n, 8)-1))
-	t := &rowTable{slots: make([]int32, size), mask: uint64(size - 1), hashes: make([]uint64, n)}
-	for i := range t.slots {
-		t.slots[i] = -1
+// partition hashes the n rows of a side twice (once to count, once to
+// place), so no per-row hash array outlives the scatter.
+func partition(k *rowKeys, side Side, n int, bitsP uint) *partitioned {
+	np := 1 << bitsP
+	counts := make([]int, np+1)
+	buf := make([]uint64, min(hashBlock, max(n, 1)))
+	part := func(h uint64) uint64 {
+		if bitsP == 0 {
+			return 0
+		}
+		return h >> (64 - bitsP)
 	}
-	return t
+	for from := 0; from < n; from += hashBlock {
+		hs := buf[:min(hashBlock, n-from)]
+		k.hash(side, from, hs)
+		for _, h := range hs {
+			counts[part(h)+1]++
+		}
+	}
+	for p := 1; p <= np; p++ {
+		counts[p] += counts[p-1]
+	}
+	out := &partitioned{h: make([]uint64, n), row: make([]int32, n), start: append([]int(nil), counts...)}
+	next := counts[:np]
+	for from := 0; from < n; from += hashBlock {
+		hs := buf[:min(hashBlock, n-from)]
+		k.hash(side, from, hs)
+		for i, h := range hs {
+			p := part(h)
+			at := next[p]
+			next[p]++
+			out.h[at], out.row[at] = h, int32(from+i)
+		}
+	}
+	return out
 }
 
-// groups is the outcome of grouping rows by their matching cells: every
-// want row belongs to the group of the first want row with equal cells
-// (its head); got rows find their head, or -1.
-type groups struct {
-	// wantMore lists, for heads with several want rows, the others in
-	// order.
+// joined is what joinRows found. A "first" row is the first row of its
+// side with its cells; all lists are in row order.
+type joined struct {
+	// firstGot[i] is, for a first want row i, the first got row with the
+	// same cells; -1 for other want rows and when got has no such row.
+	firstGot []int32
+	// wantMore maps a first want row to the later want rows with its cells.
 	wantMore map[int32][]int32
-	// gotHead is the want head of each got row, -1 when want has no row
-	// with its cells.
-	gotHead []int32
+	// laterGot maps a first want row to the got rows with its cells after
+	// firstGot.
+	laterGot map[int32][]int32
+	// gotOnly maps the first got row of cells want lacks to the later got
+	// rows with them.
+	gotOnly map[int32][]int32
 }
 
-// groupRows hashes want rows into a table, then looks up every got row.
-func groupRows(k *rowKeys, nw, ng int) *groups {
-	t := newRowTable(nw)
-	g := &groups{wantMore: map[int32][]int32{}, gotHead: make([]int32, ng)}
-	for from := 0; from < nw; from += hashBlock {
-		hs := t.hashes[from:min(from+hashBlock, nw)]
-		k.hash(WantSide, from, hs)
-		for i, h := range hs {
-			row := int32(from + i)
-			s := h & t.mask
-			for {
-				r := t.slots[s]
-				if r < 0 {
-					t.slots[s] = row
-					break
-				}
-				if t.hashes[r] == h && k.equal(WantSide, int(r), WantSide, int(row)) {
-					g.wantMore[r] = append(g.wantMore[r], row)
-					break
-				}
-				s = (s + 1) & t.mask
-			}
-		}
+// joinRows groups the rows of both sides by their matching cells. Large
+// inputs are partitioned and joined on up to GOMAXPROCS goroutines; the
+// result does not depend on the scheduling.
+func joinRows(k *rowKeys, nw, ng int) *joined {
+	bitsP := uint(0)
+	for (max(nw, ng)>>bitsP) > partitionRows && bitsP < 12 {
+		bitsP++
 	}
-	buf := make([]uint64, min(hashBlock, ng))
-	for from := 0; from < ng; from += hashBlock {
-		hs := buf[:min(hashBlock, ng-from)]
-		k.hash(GotSide, from, hs)
-		for i, h := range hs {
-			j := from + i
-			g.gotHead[j] = -1
-			s := h & t.mask
-			for {
-				r := t.slots[s]
-				if r < 0 {
-					break
-				}
-				if t.hashes[r] == h && k.equal(WantSide, int(r), GotSide, j) {
-					g.gotHead[j] = r
-					break
-				}
-				s = (s + 1) & t.mask
-			}
-		}
+	var w, g *partitioned
+	parallel := max(nw, ng) >= parallelCells && runtime.GOMAXPROCS(0) > 1
+	if parallel {
+		var wg sync.WaitGroup
+		wg.Add(1)
+		go func() { defer wg.Done(); w = partition(k, WantSide, nw, bitsP) }()
+		g = partition(k, GotSide, ng, bitsP)
+		wg.Wait()
+	} else {
+		w = partition(k, WantSide, nw, bitsP)
+		g = partition(k, GotSide, ng, bitsP)
 	}
-	return g
+	out := &joined{firstGot: make([]int32, nw), wantMore: map[int32][]int32{}, laterGot: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
+	for i := range out.firstGot {
+		out.firstGot[i] = -1
+	}
+	np := len(w.start) - 1
+	workers := 1
+	if parallel {
+		workers = min(runtime.GOMAXPROCS(0), np)
+	}
+	parts := make([]*joined, workers)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for t := range workers {
+		local := &joined{firstGot: out.firstGot, wantMore: map[int32][]int32{}, laterGot: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
+		parts[t] = local
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var j partitionJoin
+			for {
+				p := int(next.Add(1) - 1)
+				if p >= np {
+					return
+				}
+				j.run(k, w, g, p, local)
+			}
+		}()
+	}
+	wg.Wait()
+	for _, local := range parts {
+		maps.Copy(out.wantMore, local.wantMore)
+		maps.Copy(out.laterGot, local.laterGot)
+		maps.Copy(out.gotOnly, local.gotOnly)
+	}
+	return out
 }
 
-// gotOnly groups got rows that want lacks by their cells, to find repeated
-// keys among them. It returns, for each such got row that is not the first
-// with its cells, the first one.
-func gotOnly(k *rowKeys, g *groups) map[int32][]int32 {
-	byHash := map[uint64][]int32{}
-	more := map[int32][]int32{}
-	var h [1]uint64
-	for j, head := range g.gotHead {
-		if head >= 0 {
-			continue
-		}
-		k.hash(GotSide, j, h[:])
-		found := false
-		for _, first := range byHash[h[0]] {
-			if k.equal(GotSide, int(first), GotSide, j) {
-				more[first] = append(more[first], int32(j))
-				found = true
+// partitionJoin holds the buffers one goroutine reuses across partitions.
+type partitionJoin struct {
+	slots []int32 // want entries as e-wa ≥ 0, got entries as -(e-ga)-2; empty -1
+	first []int32 // per want entry of the partition: its first got row, or -1
+}
+
+// run joins partition p, writing into out.
+func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) {
+	wa, wb := w.start[p], w.start[p+1]
+	ga, gb := g.start[p], g.start[p+1]
+	size := 1 << bits.Len(uint(max(2*(wb-wa+gb-ga), 8)-1))
+	if cap(pj.slots) < size {
+		pj.slots = make([]int32, size)
+	}
+	slots := pj.slots[:size]
+	for i := range slots {
+		slots[i] = empty
+	}
+	if cap(pj.first) < wb-wa {
+		pj.first = make([]int32, wb-wa)
+	}
+	first := pj.first[:wb-wa]
+	for i := range first {
+		first[i] = -1
+	}
+	mask := uint64(size - 1)
+	for e := wa; e < wb; e++ {
+		h, row := w.h[e], w.row[e]
+		for s := h & mask; ; s = (s + 1) & mask {
+			x := slots[s]
+			if x == empty {
+				slots[s] = int32(e - wa)
+				break
+			}
+			if x >= 0 && w.h[wa+int(x)] == h && k.same(WantSide, int(w.row[wa+int(x)]), WantSide, int(row)) {
+				head := w.row[wa+int(x)]
+				out.wantMore[head] = append(out.wantMore[head], row)
 				break
 			}
 		}
-		if !found {
-			byHash[h[0]] = append(byHash[h[0]], int32(j))
+	}
+	for e := ga; e < gb; e++ {
+		h, row := g.h[e], g.row[e]
+		for s := h & mask; ; s = (s + 1) & mask {
+			x := slots[s]
+			if x == empty {
+				slots[s] = -int32(e-ga) - 2
+				break
+			}
+			if x >= 0 {
+				we := wa + int(x)
+				if w.h[we] == h && k.same(WantSide, int(w.row[we]), GotSide, int(row)) {
+					if first[x] < 0 {
+						first[x] = row
+					} else {
+						out.laterGot[w.row[we]] = append(out.laterGot[w.row[we]], row)
+					}
+					break
+				}
+				continue
+			}
+			ge := ga + int(-x-2)
+			if g.h[ge] == h && k.same(GotSide, int(g.row[ge]), GotSide, int(row)) {
+				out.gotOnly[g.row[ge]] = append(out.gotOnly[g.row[ge]], row)
+				break
+			}
 		}
 	}
-	return more
+	for x, j := range first {
+		if j >= 0 {
+			out.firstGot[w.row[wa+x]] = j
+		}
+	}
+}
+
+const empty = -1
+
+// same reports whether two rows have equal matching cells, given that
+// their hashes are equal: for a single int64 key the hash is a bijection
+// of the key, so equal hashes are proof enough.
+func (k *rowKeys) same(a Side, i int, b Side, j int) bool {
+	if k.wInts != nil {
+		return true
+	}
+	return k.equal(a, i, b, j)
 }
 
 // matchByKey pairs rows with equal keys, in order of appearance, and
@@ -277,30 +392,8 @@ func gotOnly(k *rowKeys, g *groups) map[int32][]int32 {
 func (c *comparison) matchByKey() {
 	nw, ng := c.want.NumRows(), c.got.NumRows()
 	k := newRowKeys(c.keyCols)
-	g := groupRows(k, nw, ng)
-	gOf := make([]int32, nw)
-	for i := range gOf {
-		gOf[i] = -1
-	}
-	next := map[int32]int{}        // heads with several want rows: how many are taken
-	gotMore := map[int32][]int32{} // want head → later got rows with its key
-	matched := make([]uint64, (ng+63)/64)
-	for j, head := range g.gotHead {
-		if head < 0 {
-			continue
-		}
-		if gOf[head] < 0 {
-			gOf[head] = int32(j)
-			matched[j>>6] |= 1 << (uint(j) & 63)
-			continue
-		}
-		gotMore[head] = append(gotMore[head], int32(j))
-		if more := g.wantMore[head]; next[head] < len(more) {
-			gOf[more[next[head]]] = int32(j)
-			next[head]++
-			matched[j>>6] |= 1 << (uint(j) & 63)
-		}
-	}
+	jn := joinRows(k, nw, ng)
+	gOf, matched := pairInOrder(jn, ng)
 	c.pairs = pairing{n: nw, g: gOf}
 	for i, gi := range gOf {
 		if gi < 0 {
@@ -313,25 +406,46 @@ func (c *comparison) matchByKey() {
 		}
 	}
 	// Repeated keys: want's in order of first appearance, then got's.
-	wantHeads := sortedKeys(g.wantMore)
-	for _, h := range wantHeads {
-		c.addDuplicate(WantSide, append([]int32{h}, g.wantMore[h]...))
+	for _, h := range sortedKeys(jn.wantMore) {
+		c.addDuplicate(WantSide, append([]int32{h}, jn.wantMore[h]...))
 	}
 	type gotDup struct {
 		first int32
 		rows  []int32
 	}
 	var gd []gotDup
-	for h, more := range gotMore {
-		gd = append(gd, gotDup{gOf[h], append([]int32{gOf[h]}, more...)})
+	for h, more := range jn.laterGot {
+		gd = append(gd, gotDup{jn.firstGot[h], append([]int32{jn.firstGot[h]}, more...)})
 	}
-	for first, more := range gotOnly(k, g) {
+	for first, more := range jn.gotOnly {
 		gd = append(gd, gotDup{first, append([]int32{first}, more...)})
 	}
 	slices.SortFunc(gd, func(a, b gotDup) int { return int(a.first) - int(b.first) })
 	for _, x := range gd {
 		c.addDuplicate(GotSide, x.rows)
 	}
+}
+
+// pairInOrder pairs the rows of each group in order of appearance: the
+// i-th want row with the i-th got row. It returns each want row's partner
+// (-1 for none) and a bitmap of the paired got rows.
+func pairInOrder(jn *joined, ng int) (gOf []int32, matched []uint64) {
+	gOf = jn.firstGot // taken over: firstGot is not needed afterwards
+	matched = make([]uint64, (ng+63)/64)
+	for _, j := range gOf {
+		if j >= 0 {
+			matched[j>>6] |= 1 << (uint(j) & 63)
+		}
+	}
+	for head, later := range jn.laterGot {
+		more := jn.wantMore[head]
+		for t := 0; t < len(later) && t < len(more); t++ {
+			j := later[t]
+			gOf[more[t]] = j
+			matched[j>>6] |= 1 << (uint(j) & 63)
+		}
+	}
+	return gOf, matched
 }
 
 func sortedKeys(m map[int32][]int32) []int32 {
@@ -388,35 +502,25 @@ func (c *comparison) matchAsMultiset() {
 		}
 	}
 	k := newRowKeys(exact)
-	g := groupRows(k, nw, ng)
-	gOf := make([]int32, nw)
-	for i := range gOf {
-		gOf[i] = -1
-	}
-	gotOf := make([]int32, ng)
-	for j := range gotOf {
-		gotOf[j] = -1
-	}
+	jn := joinRows(k, nw, ng)
+	var gOf, gotOf []int32
 	if len(loose) == 0 {
-		next := map[int32]int{}
-		for j, head := range g.gotHead {
-			if head < 0 {
-				continue
-			}
-			if gOf[head] < 0 {
-				gOf[head], gotOf[j] = int32(j), head
-			} else if more := g.wantMore[head]; next[head] < len(more) {
-				wi := more[next[head]]
-				gOf[wi], gotOf[j] = int32(j), wi
-				next[head]++
+		var matched []uint64
+		gOf, matched = pairInOrder(jn, ng)
+		gotOf = make([]int32, ng)
+		for j := range gotOf {
+			if matched[j>>6]&(1<<(uint(j)&63)) == 0 {
+				gotOf[j] = -1
 			}
 		}
 	} else {
-		gotRows := map[int32][]int32{}
-		for j, head := range g.gotHead {
-			if head >= 0 {
-				gotRows[head] = append(gotRows[head], int32(j))
-			}
+		gOf = make([]int32, nw)
+		for i := range gOf {
+			gOf[i] = -1
+		}
+		gotOf = make([]int32, ng)
+		for j := range gotOf {
+			gotOf[j] = -1
 		}
 		near := func(wi, gi int32) bool {
 			for _, cc := range loose {
@@ -426,9 +530,14 @@ func (c *comparison) matchAsMultiset() {
 			}
 			return true
 		}
-		for _, head := range sortedKeys(gotRows) {
-			ws := append([]int32{head}, g.wantMore[head]...)
-			pairGroup(ws, gotRows[head], near, loose, gOf, gotOf)
+		for head, j := range jn.firstGot {
+			if j < 0 {
+				continue
+			}
+			h := int32(head)
+			ws := append([]int32{h}, jn.wantMore[h]...)
+			gs := append([]int32{j}, jn.laterGot[h]...)
+			pairGroup(ws, gs, near, loose, gOf, gotOf)
 		}
 	}
 	var pw, pg []int32
