@@ -34,15 +34,16 @@
 // second time in one run: each golden file belongs to one check.
 //
 // A table file is a literal table (fixtures.Parse) without padding, after
-// a few lines of metadata — see EncodeTable. It reads like this in a pull
-// request:
+// a few lines of metadata — see EncodeTable. Rows are sorted by the key
+// columns (by bytes, so "Les Pins" before "Étang") when the check matches
+// rows by key. It reads like this in a pull request:
 //
 //	# proofsheet sheet v1
 //	# keys: house, day
 //	# rows: 2
 //	house:string | day:date | tmax:float64 | kept:int64
-//	Étang | 2026-04-01 | 21.5 | 140
 //	Les Pins | 2026-04-01 | ~ | 0
+//	Étang | 2026-04-01 | 21.5 | 140
 //
 // Text files hold the text as it is. JSON files hold canonical JSON (see
 // CanonicalJSON) and are compared by structure, reporting differences by

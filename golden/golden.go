@@ -90,7 +90,8 @@ func (s Store) Path(name string, kind FileKind) (string, error) {
 // below it, else as it is.
 func displayPath(path string) string {
 	if wd, err := os.Getwd(); err == nil {
-		if rel, err := filepath.Rel(wd, path); err == nil && !strings.HasPrefix(rel, "..") && !filepath.IsAbs(rel) {
+		if below(wd, path) {
+			rel, _ := filepath.Rel(wd, path)
 			return rel
 		}
 	}
@@ -138,6 +139,42 @@ func (c *check) read() ([]byte, bool, error) {
 		return nil, false, fmt.Errorf("golden: %w", err)
 	}
 	return data, true, nil
+}
+
+// course is what a kind of check brings to the common course of a check
+// (Store.run): a look at got before the file is read, the comparison of
+// got with the stored bytes, and the bytes to store.
+type course struct {
+	prepare func() error                            // optional; an error fails the check
+	compare func(file string, stored []byte) result // file: the path for messages
+	encode  func() ([]byte, error)
+}
+
+// run is the course every check takes: claim the name, prepare, read the
+// stored file, compare, then pass, fail or write (settle).
+func (s Store) run(t T, name string, kind FileKind, k course) bool {
+	t.Helper()
+	c := s.begin(t, name, kind)
+	if c == nil {
+		return false
+	}
+	if k.prepare != nil {
+		if err := k.prepare(); err != nil {
+			c.fail(StatusInvalid, nil, "golden: %s: %v", c.show, err)
+			return false
+		}
+	}
+	data, exists, err := c.read()
+	if err != nil {
+		c.fail(StatusInvalid, nil, "%v", err)
+		return false
+	}
+	r := result{}
+	if exists {
+		r = k.compare(c.show, data)
+		r.exists = true
+	}
+	return c.settle(r, k.encode)
 }
 
 // result is what a kind found when comparing got with the stored file.
@@ -215,12 +252,16 @@ func (c *check) fail(status Status, diff json.RawMessage, format string, args ..
 
 func (c *check) record(status Status, diff json.RawMessage, detail string) {
 	c.t.Helper()
+	dir := os.Getenv(EnvRecords)
+	if dir == "" {
+		return
+	}
 	r := Record{Test: c.t.Name(), Name: c.name, Kind: c.kind, Status: status, Diff: diff, Detail: detail}
 	if c.path != "" {
 		r.File = filepath.ToSlash(c.path)
 		r.Path = modulePath(c.path)
 	}
-	if err := appendRecord(r); err != nil {
+	if err := appendRecord(dir, r); err != nil {
 		c.t.Errorf("golden: %v", err)
 	}
 }
@@ -264,7 +305,8 @@ func moduleRoot() (root, rel string, ok bool) {
 // or absolute when it lies outside the module.
 func modulePath(path string) string {
 	if root, _, ok := moduleRoot(); ok {
-		if rel, err := filepath.Rel(root, path); err == nil && !strings.HasPrefix(rel, "..") && !filepath.IsAbs(rel) {
+		if below(root, path) {
+			rel, _ := filepath.Rel(root, path)
 			return filepath.ToSlash(rel)
 		}
 	}

@@ -30,28 +30,18 @@ import (
 // encoding/json; pass a json.RawMessage for JSON you already have.
 func (s Store) JSON(t T, name string, v any) bool {
 	t.Helper()
-	c := s.begin(t, name, KindJSON)
-	if c == nil {
-		return false
-	}
-	gotBytes, err := CanonicalJSON(v)
-	if err != nil {
-		c.fail(StatusInvalid, nil, "golden: %s: %v", c.show, err)
-		return false
-	}
-	data, exists, err := c.read()
-	if err != nil {
-		c.fail(StatusInvalid, nil, "%v", err)
-		return false
-	}
-	r := result{exists: exists}
-	if exists {
-		var diff string
-		diff, r.bad = JSONDiff(data, gotBytes)
-		r.equal = diff == ""
-		r.diff = diff
-	}
-	return c.settle(r, func() ([]byte, error) { return gotBytes, nil })
+	var got []byte
+	return s.run(t, name, KindJSON, course{
+		prepare: func() (err error) {
+			got, err = CanonicalJSON(v)
+			return err
+		},
+		compare: func(_ string, stored []byte) result {
+			diff, err := JSONDiff(stored, got)
+			return result{equal: diff == "" && err == nil, diff: diff, bad: err}
+		},
+		encode: func() ([]byte, error) { return got, nil },
+	})
 }
 
 // CanonicalJSON marshals v with encoding/json and writes it in one fixed

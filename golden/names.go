@@ -114,8 +114,7 @@ func CheckName(name string) error {
 // within reports whether path, once symbolic links are followed as far as
 // the file system has them, lies inside root.
 func within(root, path string) error {
-	rel, err := filepath.Rel(root, path)
-	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) || filepath.IsAbs(rel) {
+	if !below(root, path) {
 		return fmt.Errorf("%w: %s is outside the golden directory %s", ErrBadName, path, root)
 	}
 	realRoot, err := filepath.EvalSymlinks(root)
@@ -140,10 +139,14 @@ func within(root, path string) error {
 	if err != nil {
 		return fmt.Errorf("%w: %s: %w", ErrBadName, path, err)
 	}
-	real = filepath.Join(real, rest)
-	rel, err = filepath.Rel(realRoot, real)
-	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) || filepath.IsAbs(rel) {
+	if !below(realRoot, filepath.Join(real, rest)) {
 		return fmt.Errorf("%w: %s leads outside the golden directory %s through a symbolic link", ErrBadName, path, root)
 	}
 	return nil
+}
+
+// below reports whether path is dir or lies inside it, by their names.
+func below(dir, path string) bool {
+	rel, err := filepath.Rel(dir, path)
+	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) && !filepath.IsAbs(rel)
 }

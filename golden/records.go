@@ -76,13 +76,8 @@ type recorder struct {
 
 var records recorder
 
-// appendRecord writes r to the run records, if PROOFSHEET_RECORDS asks for
-// them.
-func appendRecord(r Record) error {
-	dir := os.Getenv(EnvRecords)
-	if dir == "" {
-		return nil
-	}
+// appendRecord writes r to the run records in dir (PROOFSHEET_RECORDS).
+func appendRecord(dir string, r Record) error {
 	line, err := json.Marshal(r)
 	if err != nil {
 		return fmt.Errorf("run record: %w", err)

@@ -18,8 +18,8 @@ import (
 //	# keys: house, day
 //	# rows: 2
 //	house:string | day:date | tmax:float64 | kept:int64
+//	Les Pins | 2026-04-01 | ~ | 0
 //	Étang | 2026-04-01 | 21.5 | 140
-//	"Les Pins" | 2026-04-01 | ~ | 0
 //
 //   - The first line names the layout and its version. A reader refuses
 //     versions it does not know.

@@ -1,6 +1,7 @@
 package golden
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 
@@ -30,40 +31,35 @@ func Table(t T, name string, got *fixtures.Table, opts ...assert.Option) bool {
 // result reports whether the check passed.
 func (s Store) Table(t T, name string, got *fixtures.Table, opts ...assert.Option) bool {
 	t.Helper()
-	c := s.begin(t, name, KindTable)
-	if c == nil {
-		return false
-	}
-	if got == nil {
-		c.fail(StatusInvalid, nil, "golden: %s: got is a nil table", c.show)
-		return false
-	}
-	data, exists, err := c.read()
-	if err != nil {
-		c.fail(StatusInvalid, nil, "%v", err)
-		return false
-	}
-	r := result{exists: exists}
-	if exists {
-		want, _, err := DecodeTable(c.show, data)
-		if err != nil {
-			r.bad = err
-		} else {
-			d := assert.Compare(want, got, opts...)
-			if r.equal = d.Equal(); !r.equal {
-				r.diff = d.Text()
-				if js, err := d.JSON(); err == nil {
-					r.diffRec = js
-				}
+	return s.run(t, name, KindTable, course{
+		prepare: func() error {
+			if got == nil {
+				return errors.New("got is a nil table")
 			}
-		}
-	}
-	return c.settle(r, func() ([]byte, error) {
-		// Options that do not fit got itself (a key column it lacks, a
-		// bad tolerance) would fail every later run: refuse to write.
-		if p := assert.Compare(got, got, opts...).Problems; len(p) > 0 {
-			return nil, fmt.Errorf("the options do not fit got: %s", strings.Join(p, "; "))
-		}
-		return EncodeTable(got, assert.KeyColumns(opts...))
+			return nil
+		},
+		compare: func(file string, stored []byte) result {
+			want, _, err := DecodeTable(file, stored)
+			if err != nil {
+				return result{bad: err}
+			}
+			d := assert.Compare(want, got, opts...)
+			if d.Equal() {
+				return result{equal: true}
+			}
+			r := result{diff: d.Text()}
+			if js, err := d.JSON(); err == nil {
+				r.diffRec = js
+			}
+			return r
+		},
+		encode: func() ([]byte, error) {
+			// Options that do not fit got itself (a key column it lacks, a
+			// bad tolerance) would fail every later run: refuse to write.
+			if p := assert.Compare(got, got, opts...).Problems; len(p) > 0 {
+				return nil, fmt.Errorf("the options do not fit got: %s", strings.Join(p, "; "))
+			}
+			return EncodeTable(got, assert.KeyColumns(opts...))
+		},
 	})
 }

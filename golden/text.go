@@ -21,23 +21,15 @@ import (
 // .gitattributes line such as "*.gold.* -text").
 func (s Store) Text(t T, name string, got string) bool {
 	t.Helper()
-	c := s.begin(t, name, KindText)
-	if c == nil {
-		return false
-	}
-	data, exists, err := c.read()
-	if err != nil {
-		c.fail(StatusInvalid, nil, "%v", err)
-		return false
-	}
-	r := result{exists: exists}
-	if exists {
-		r.equal = string(data) == got
-		if !r.equal {
-			r.diff = TextDiff(string(data), got)
-		}
-	}
-	return c.settle(r, func() ([]byte, error) { return []byte(got), nil })
+	return s.run(t, name, KindText, course{
+		compare: func(_ string, stored []byte) result {
+			if string(stored) == got {
+				return result{equal: true}
+			}
+			return result{diff: TextDiff(string(stored), got)}
+		},
+		encode: func() ([]byte, error) { return []byte(got), nil },
+	})
 }
 
 // editOps returns a shortest edit script turning a into b, with the runes
