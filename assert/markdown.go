@@ -102,7 +102,7 @@ func (d *Diff) Markdown() string {
 			for i, r := range k.Rows {
 				at[i] = strconv.Itoa(r)
 			}
-			p("| %s | %s | %d | %s |\n", k.Side, mdJoin(k.Key), k.Count, strings.Join(at, ", "))
+			p("| %s | %s | %d | %s |\n", k.Side, mdCode("("+strings.Join(k.Key, ", ")+")"), k.Count, strings.Join(at, ", "))
 		}
 	}
 	if cols := d.notableColumns(); len(cols) > 0 {

@@ -48,12 +48,25 @@ func (d *Diff) TextWith(st TextStyle) string {
 		st.Width = 100
 	}
 	w := &textWriter{st: st}
-	w.line(w.bold(d.headline()))
-	w.line(d.matchLine())
+	for i, l := range wrap(d.headline(), st.Width, 4) {
+		if i == 0 {
+			l = w.bold(l)
+		}
+		w.line(l)
+	}
+	for _, l := range wrap(d.matchLine(), st.Width, 4) {
+		w.line(l)
+	}
 	if len(d.Problems) > 0 {
 		w.section("problems")
 		for _, p := range d.Problems {
-			w.line("  " + w.paint(ansiProblem, "!") + " " + p)
+			for i, l := range wrap(p, st.Width-4, 0) {
+				mark := "    "
+				if i == 0 {
+					mark = "  " + w.paint(ansiProblem, "!") + " "
+				}
+				w.line(mark + l)
+			}
 		}
 	}
 	if len(d.Schema) > 0 {
@@ -273,7 +286,11 @@ func (w *textWriter) cells(d *Diff) {
 	}
 	w.tableWith(rows, right, map[int]string{nk + 1: ansiWant, nk + 2: ansiGot}, func(row int, indent int) {
 		if e, ok := edits[row]; ok {
-			w.line(strings.Repeat(" ", indent) + "edit: " + e)
+			line := strings.Repeat(" ", indent) + "edit: " + e
+			if !w.st.Color {
+				line = textwidth.Truncate(line, w.st.Width)
+			}
+			w.line(line)
 		}
 	})
 }
@@ -390,7 +407,7 @@ func (w *textWriter) tableWith(rows [][]string, right map[int]bool, paint map[in
 }
 
 // fitWidths narrows the widest columns until the columns, two spaces
-// apart, fit in total; no column goes below 8 unless it already was.
+// apart, fit in total; no column goes below 6 unless it already was.
 func fitWidths(widths []int, total int) {
 	sum := func() int {
 		n := 0
@@ -406,7 +423,7 @@ func fitWidths(widths []int, total int) {
 				wi = j
 			}
 		}
-		if widths[wi] <= 8 {
+		if widths[wi] <= 6 {
 			return
 		}
 		widths[wi]--
@@ -423,4 +440,23 @@ func UseColor(f *os.File) bool {
 	}
 	fi, err := f.Stat()
 	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}
+
+// wrap breaks s at spaces into lines of at most width columns; lines after
+// the first are indented. A word longer than a line stays whole.
+func wrap(s string, width, indent int) []string {
+	var lines []string
+	line := ""
+	for _, word := range strings.Split(s, " ") {
+		switch {
+		case line == "":
+			line = word
+		case textwidth.Width(line)+1+textwidth.Width(word) <= width:
+			line += " " + word
+		default:
+			lines = append(lines, line)
+			line = strings.Repeat(" ", indent) + word
+		}
+	}
+	return append(lines, line)
 }

@@ -27,6 +27,9 @@ var invisibleNames = map[rune]string{
 // visibleRune returns the marker of an invisible rune, or "" for a rune
 // that shows as itself.
 func visibleRune(r rune) string {
+	if r >= byteRunes && r < byteRunes+256 {
+		return fmt.Sprintf("⟨0x%02X⟩", r-byteRunes)
+	}
 	if name, ok := invisibleNames[r]; ok {
 		return "⟨" + name + "⟩"
 	}
@@ -84,7 +87,7 @@ type editStyle struct {
 // help (then both are best read whole).
 func textEdit(want, got string, st editStyle) (line string, ok bool) {
 	dmp := diffmatchpatch.New()
-	diffs := dmp.DiffMain(want, got, false)
+	diffs := dmp.DiffMain(keepBytes(want), keepBytes(got), false)
 	diffs = dmp.DiffCleanupSemantic(diffs)
 	common := 0
 	for _, d := range diffs {
@@ -93,7 +96,7 @@ func textEdit(want, got string, st editStyle) (line string, ok bool) {
 		}
 	}
 	longest := max(utf8.RuneCountInString(want), utf8.RuneCountInString(got))
-	if common == 0 || common*3 < longest {
+	if (common == 0 || common*3 < longest) && !hasInvisible(want) && !hasInvisible(got) {
 		return "", false
 	}
 	var b strings.Builder
@@ -101,7 +104,7 @@ func textEdit(want, got string, st editStyle) (line string, ok bool) {
 	for i := 0; i < n; i++ {
 		d := diffs[i]
 		if d.Type == diffmatchpatch.DiffEqual {
-			b.WriteString(visible(d.Text, false, i == 0, i == n-1))
+			b.WriteString(visible(elide(d.Text, i == 0, i == n-1), false, i == 0, i == n-1))
 			continue
 		}
 		var del, ins string
@@ -124,4 +127,64 @@ func textEdit(want, got string, st editStyle) (line string, ok bool) {
 		b.WriteString(editClose)
 	}
 	return b.String(), true
+}
+
+// editContext is how many characters of unchanged text an edit keeps next
+// to each change; longer unchanged stretches are cut to "…".
+const editContext = 16
+
+// elide shortens an unchanged stretch of an edit: the first stretch keeps
+// its end, the last its start, inner ones both ends.
+func elide(s string, first, last bool) string {
+	r := []rune(s)
+	if len(r) <= 2*editContext+1 {
+		return s
+	}
+	switch {
+	case first && last:
+		return s
+	case first:
+		return "…" + string(r[len(r)-editContext:])
+	case last:
+		return string(r[:editContext]) + "…"
+	}
+	return string(r[:editContext]) + "…" + string(r[len(r)-editContext:])
+}
+
+// hasInvisible reports whether s holds a character an edit would show as
+// a marker, or starts or ends with a space.
+func hasInvisible(s string) bool {
+	if strings.HasPrefix(s, " ") || strings.HasSuffix(s, " ") || !utf8.ValidString(s) {
+		return true
+	}
+	for _, r := range s {
+		if visibleRune(r) != "" {
+			return true
+		}
+	}
+	return false
+}
+
+// byteRunes is where keepBytes puts invalid UTF-8 bytes: 256 code points of
+// Supplementary Private Use Area-B, which the character diff treats like
+// any rune and visibleRune writes back as ⟨0xNN⟩.
+const byteRunes = 0x10ff00
+
+// keepBytes replaces each byte of s that is not valid UTF-8 by its stand-in
+// rune, so the character diff (which works on runes) keeps it distinct.
+func keepBytes(s string) string {
+	if utf8.ValidString(s) {
+		return s
+	}
+	var b strings.Builder
+	for i := 0; i < len(s); {
+		r, size := utf8.DecodeRuneInString(s[i:])
+		if r == utf8.RuneError && size == 1 {
+			b.WriteRune(byteRunes + rune(s[i]))
+		} else {
+			b.WriteString(s[i : i+size])
+		}
+		i += size
+	}
+	return b.String()
 }

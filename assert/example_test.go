@@ -1,0 +1,175 @@
+package assert_test
+
+import (
+	"fmt"
+
+	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+func ExampleCompare() {
+	want, _ := fixtures.Parse(`
+		house:string | day:date   | tmax:float64 | kept:int64
+		Étang        | 2026-04-01 | 21.5         | 140
+		"Les Pins"   | 2026-04-01 | 18.25        | 144
+	`)
+	got, _ := fixtures.Parse(`
+		house:string     | day:date   | tmax:float64 | kept:int64
+		Étang            | 2026-04-01 | 21.5         | 139
+		"Les\u00a0Pins"  | 2026-04-01 | 18.25        | 144
+	`)
+	d := assert.Compare(want, got)
+	fmt.Println(d.Equal())
+	fmt.Print(d.Text())
+	// Output:
+	// false
+	// tables differ: 2 differing cells in 2 rows
+	// want 2 rows, got 2 rows; rows paired by position
+	//
+	// differing cells (2)
+	//   row  column  want      got              Δabs     Δrel
+	//     0  kept    140       139                 1  0.00714
+	//     1  house   Les Pins  "Les\u00a0Pins"
+	//        edit: Les⟦⟨sp⟩→⟨nbsp⟩⟧Pins
+	//
+	// columns
+	//   column  compared  differing  max Δabs  at     max Δrel  at
+	//   house   exact             1
+	//   kept    exact             1         1  row 0   0.00714  row 0
+}
+
+// printT is a stand-in for *testing.T that prints what a failing test
+// would report.
+type printT struct{}
+
+func (printT) Helper()                           {}
+func (printT) Errorf(format string, args ...any) { fmt.Printf(format, args...) }
+
+func ExampleTables() {
+	want, _ := fixtures.Parse(`
+		house:string | readings:int64 | dropped:int64
+		Étang        | 140            | 4
+		Verger       | 120            | 24
+	`)
+	got, _ := fixtures.Parse(`
+		house:string | readings:int64 | dropped:int64
+		Étang        | 140            | 4
+	`)
+	var t printT // in a test: the *testing.T
+	ok := assert.Tables(t, want, got, assert.ByKey("house"))
+	fmt.Println(ok)
+	// Output:
+	// tables differ: 1 missing row
+	// want 2 rows, got 1 rows; rows matched by key (house)
+	//
+	// missing rows (1, in want, not in got)
+	//   row  house   readings  dropped
+	//     1  Verger  120       24
+	// false
+}
+
+func ExampleByKey() {
+	want, _ := fixtures.Parse(`
+		house:string | day:date   | tmean:float64 | gdd:float64
+		Étang        | 2026-04-01 | 14.2          | 4.2
+		Étang        | 2026-04-02 | 15.1          | 9.3
+		Verger       | 2026-04-01 | 12.7          | 2.7
+	`)
+	// The same rows in another order, with float noise in tmean and a
+	// real change in one gdd value.
+	got, _ := fixtures.Parse(`
+		house:string | day:date   | tmean:float64      | gdd:float64
+		Verger       | 2026-04-01 | 12.700000000000001 | 2.7
+		Étang        | 2026-04-02 | 15.1               | 9.4
+		Étang        | 2026-04-01 | 14.2               | 4.2
+	`)
+	d := assert.Compare(want, got, assert.ByKey("house", "day"), assert.Tol("*", 1e-9, 0))
+	fmt.Println(d.CellsDiffering, d.Cells[0].Row.Key, d.Cells[0].Column, d.Cells[0].Want.Text, d.Cells[0].Got.Text)
+	fmt.Print(d.Text())
+	// Output:
+	// 1 [Étang 2026-04-02] gdd 9.3 9.4
+	// tables differ: 1 differing cell in 1 row
+	// want 3 rows, got 3 rows; rows matched by key (house, day)
+	//
+	// differing cells (1)
+	//   house  day         column  want  got  Δabs    Δrel
+	//   Étang  2026-04-02  gdd     9.3   9.4   0.1  0.0106
+	//
+	// columns
+	//   column  compared   differing  max Δabs  at                    max Δrel  at
+	//   tmean   abs 1e-09          0  1.78e-15  (Verger, 2026-04-01)   1.4e-16  (Verger, 2026-04-01)
+	//   gdd     abs 1e-09          1       0.1  (Étang, 2026-04-02)     0.0106  (Étang, 2026-04-02)
+}
+
+func ExampleDiff_JSON() {
+	want, _ := fixtures.Parse(`
+		house:string | tmin:float64
+		Étang        | 8.5
+	`)
+	got, _ := fixtures.Parse(`
+		house:string | tmin:int64
+		Étang        | 8
+	`)
+	b, _ := assert.Compare(want, got, assert.ListLimit(0)).JSON()
+	fmt.Println(string(b))
+	// Output:
+	// {
+	//   "equal": false,
+	//   "match": "position",
+	//   "keys": [],
+	//   "want_rows": 1,
+	//   "got_rows": 1,
+	//   "missing_rows": 0,
+	//   "extra_rows": 0,
+	//   "cells_differing": 1,
+	//   "rows_differing": 1,
+	//   "duplicate_keys": {
+	//     "want": 0,
+	//     "got": 0
+	//   },
+	//   "problems": [],
+	//   "schema": [
+	//     {
+	//       "column": "tmin",
+	//       "change": "type",
+	//       "want": "float64",
+	//       "got": "int64"
+	//     }
+	//   ],
+	//   "columns": [
+	//     {
+	//       "name": "house",
+	//       "want_type": "string",
+	//       "got_type": "string",
+	//       "rule": "exact",
+	//       "differing": 0,
+	//       "max_abs_delta": null,
+	//       "max_rel_delta": null,
+	//       "max_abs_at": null,
+	//       "max_rel_at": null
+	//     },
+	//     {
+	//       "name": "tmin",
+	//       "want_type": "float64",
+	//       "got_type": "int64",
+	//       "rule": "by value, exact",
+	//       "differing": 1,
+	//       "max_abs_delta": 0.5,
+	//       "max_rel_delta": 0.058823529411764705,
+	//       "max_abs_at": {
+	//         "want": 0,
+	//         "got": 0
+	//       },
+	//       "max_rel_at": {
+	//         "want": 0,
+	//         "got": 0
+	//       }
+	//     }
+	//   ],
+	//   "cells": [],
+	//   "missing": [],
+	//   "extra": [],
+	//   "duplicates": [],
+	//   "limit": 0
+	// }
+}
