@@ -6,6 +6,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/leanovate/gopter"
@@ -84,32 +85,68 @@ func verdicts(tr *trial, invs []Invariant) string {
 	return ""
 }
 
-func result(msg string) *gopter.PropResult {
+// failures remembers, for each generated value that failed, the class of
+// its failure, so that shrinking keeps only candidates that fail the same
+// way: a candidate that fails otherwise (say, with an error because a
+// needed column was dropped) counts as passing.
+type failures struct {
+	mu    sync.Mutex
+	class map[any]string
+}
+
+func (fs *failures) judge(root any, isRoot bool, msg string) *gopter.PropResult {
 	if msg == "" {
+		return &gopter.PropResult{Status: gopter.PropTrue}
+	}
+	c := classOf(msg)
+	fs.mu.Lock()
+	defer fs.mu.Unlock()
+	if fs.class == nil {
+		fs.class = map[any]string{}
+	}
+	if isRoot {
+		fs.class[root] = c
+	} else if want, ok := fs.class[root]; ok && want != c {
 		return &gopter.PropResult{Status: gopter.PropTrue}
 	}
 	return &gopter.PropResult{Status: gopter.PropFalse, Labels: []string{msg}}
 }
 
+var (
+	quotedText = regexp.MustCompile(`"(?:[^"\\]|\\.)*"`)
+	digitRun   = regexp.MustCompile(`[0-9]+`)
+)
+
+// classOf reduces a failure message to its kind: the first line with
+// quoted text and numbers blanked, so that the same failure on other data
+// has the same class.
+func classOf(msg string) string {
+	first, _, _ := strings.Cut(msg, "\n")
+	return digitRun.ReplaceAllString(quotedText.ReplaceAllString(first, `"…"`), "#")
+}
+
 // Prop returns a gopter property that the table function has all the
 // invariants (NoPanic when none is given) on every sample gen draws. gen
 // must draw *Sample values, as Tables does; failing samples shrink with
-// gen's shrinker. Use it inside your own gopter.Properties:
+// gen's shrinker, keeping to candidates that fail the same way. Use it
+// inside your own gopter.Properties:
 //
 //	props := gopter.NewProperties(nil)
 //	props.Property("cleanup", property.Prop(clean, property.Tables(schema, opts), property.Idempotent()))
 //	props.TestingRun(t)
 func Prop(fn Func, gen gopter.Gen, invs ...Invariant) gopter.Prop {
+	fs := &failures{}
 	return prop.ForAll(func(s *Sample) *gopter.PropResult {
-		return result(verdicts(tableTrial(fn, s), invs))
+		return fs.judge(s.origin(), s.root == nil, verdicts(tableTrial(fn, s), invs))
 	}, gen)
 }
 
 // FileProp is Prop for a file function; gen must draw *File values, as
 // Files does.
 func FileProp(fn FileFunc, gen gopter.Gen, invs ...Invariant) gopter.Prop {
+	fs := &failures{}
 	return prop.ForAll(func(f *File) *gopter.PropResult {
-		return result(verdicts(fileTrial(fn, f), invs))
+		return fs.judge(f.origin(), f.root == nil, verdicts(fileTrial(fn, f), invs))
 	}, gen)
 }
 

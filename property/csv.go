@@ -160,6 +160,17 @@ type File struct {
 	Data   []byte
 	Style  CSVStyle
 	Sample *Sample
+
+	root *File // the generated file this one was shrunk from; nil for that one
+}
+
+// origin returns the generated file f was shrunk from (f itself when it
+// was generated).
+func (f *File) origin() *File {
+	if f.root != nil {
+		return f.root
+	}
+	return f
 }
 
 // Name returns a file name for the data ("sample.csv", "sample.tsv") that

@@ -298,7 +298,7 @@ func NoNulls(cols ...string) Invariant {
 				for !c.IsNull(first) {
 					first++
 				}
-				msgs = append(msgs, fmt.Sprintf("output column %q: got %d null cells (the first in row %d), want none", name, n, first+1))
+				msgs = append(msgs, fmt.Sprintf("output column %q: got %s (the first in row %d), want none", name, plural(n, "null cell"), first+1))
 			}
 		}
 		return strings.Join(msgs, "\n")

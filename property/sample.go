@@ -34,7 +34,8 @@ type Sample struct {
 
 	cols []rawCol
 	rows []rawRow
-	recs [][]any // clean values of each record, in schema order
+	recs [][]any  // clean values of each record, in schema order
+	root *Sample // the generated sample this one was shrunk or derived from; nil for that one
 
 	rawOnce, plainOnce, cleanOnce sync.Once
 	raw, plain, clean             *fixtures.Table
@@ -373,7 +374,16 @@ func (s *Sample) String() string {
 // derive returns a sample sharing s's schema, records and columns, with
 // the given rows.
 func (s *Sample) derive(cols []rawCol, rows []rawRow) *Sample {
-	return &Sample{Seed: s.Seed, Schema: s.Schema, cols: cols, rows: rows, recs: s.recs}
+	return &Sample{Seed: s.Seed, Schema: s.Schema, cols: cols, rows: rows, recs: s.recs, root: s.origin()}
+}
+
+// origin returns the generated sample s derives from (s itself when it
+// was generated).
+func (s *Sample) origin() *Sample {
+	if s.root != nil {
+		return s.root
+	}
+	return s
 }
 
 // Shuffled returns the sample with its raw rows in an order drawn from

@@ -241,7 +241,7 @@ func fileStream(f *File) func() (*File, bool) {
 				if err != nil {
 					continue
 				}
-				return &File{Data: data, Style: st, Sample: f.Sample}, true
+				return &File{Data: data, Style: st, Sample: f.Sample, root: f.origin()}, true
 			}
 			s, ok := next()
 			if !ok {
@@ -252,7 +252,7 @@ func fileStream(f *File) func() (*File, bool) {
 			if err != nil {
 				continue
 			}
-			return &File{Data: data, Style: f.Style, Sample: s}, true
+			return &File{Data: data, Style: f.Style, Sample: s, root: f.origin()}, true
 		}
 	}
 }
