@@ -34,7 +34,7 @@ type Sample struct {
 
 	cols []rawCol
 	rows []rawRow
-	recs [][]any  // clean values of each record, in schema order
+	recs [][]any // clean values of each record, in schema order
 	root *Sample // the generated sample this one was shrunk or derived from; nil for that one
 
 	rawOnce, plainOnce, cleanOnce sync.Once
