@@ -3,6 +3,7 @@ package greenhouse
 import (
 	"fmt"
 	"math"
+	"math/big"
 	"sort"
 	"strconv"
 	"strings"
@@ -177,10 +178,26 @@ func firstColumn(t *fixtures.Table, names ...string) *fixtures.Column {
 	return nil
 }
 
+// MissingWords are the ways the network's loggers and spreadsheets write
+// "no value"; with the sentinels -999 and ERR they never name a house.
+func MissingWords() []string {
+	return []string{"NA", "N/A", "n/a", "-", "?", "null", "NULL"}
+}
+
 // cleanName trims a house name and puts it in Unicode NFC, so "Bellecôte"
 // typed with a combining circumflex and with a precomposed ô is one house.
+// A missing word or a sentinel is no house: "".
 func cleanName(s string) string {
-	return norm.NFC.String(strings.TrimSpace(s))
+	s = norm.NFC.String(strings.TrimSpace(s))
+	if s == "ERR" || s == strconv.Itoa(Sentinel) {
+		return ""
+	}
+	for _, w := range MissingWords() {
+		if s == w {
+			return ""
+		}
+	}
+	return s
 }
 
 // timeLayouts are the spellings the network's loggers use. Slashed dates
@@ -257,7 +274,8 @@ func Daily(readings *fixtures.Table, opt Options) (*fixtures.Table, error) {
 		day   int64 // Unix day; math.MinInt64 for undated
 	}
 	type acc struct {
-		min, max, sum float64
+		min, max      float64
+		sum           big.Rat // exact, so the mean does not depend on row order
 		kept, dropped int64
 	}
 	groups := map[key]*acc{}
@@ -278,7 +296,7 @@ func Daily(readings *fixtures.Table, opt Options) (*fixtures.Table, error) {
 		}
 		t := temp.Float64(i)
 		a.kept++
-		a.sum += t
+		a.sum.Add(&a.sum, DecimalOf(t))
 		a.min = math.Min(a.min, t)
 		a.max = math.Max(a.max, t)
 	}
@@ -303,7 +321,8 @@ func Daily(readings *fixtures.Table, opt Options) (*fixtures.Table, error) {
 			if a.kept > 0 {
 				g := GDD(a.min, a.max, BaseC)
 				season[k.house] += g
-				tmin, tmax, tmean, gdd = round(a.min), round(a.max), round(a.sum/float64(a.kept)), round(g)
+				mean := new(big.Rat).Quo(&a.sum, new(big.Rat).SetInt64(a.kept))
+				tmin, tmax, tmean, gdd = round(a.min), round(a.max), RoundRat(mean, opt.decimals()), round(g)
 			}
 			gddSeason = round(season[k.house])
 		}
@@ -320,10 +339,36 @@ func floorDiv(a, b int64) int64 {
 	return q
 }
 
-// roundTo rounds half away from zero to d decimals.
+// roundTo rounds half away from zero to d decimals (exactly: see RoundRat).
 func roundTo(d int) func(float64) float64 {
-	p := math.Pow(10, float64(d))
-	return func(v float64) float64 { return math.Round(v*p) / p }
+	return func(v float64) float64 { return RoundRat(DecimalOf(v), d) }
+}
+
+// DecimalOf returns the decimal a reading stands for: the shortest decimal
+// that reads back as the same float64 (what the logger wrote, 52.8, not the
+// binary value just below it). Summing these exactly gives the mean a
+// person computes by hand.
+func DecimalOf(v float64) *big.Rat {
+	r, _ := new(big.Rat).SetString(strconv.FormatFloat(v, 'g', -1, 64))
+	return r
+}
+
+// RoundRat rounds an exact number half away from zero to d decimals and
+// returns the float64 nearest that decimal. Working exactly matters: a mean
+// of readings summed in float64 can land a hair either side of a half
+// (-17.475) depending on the order of the rows, and round differently.
+func RoundRat(r *big.Rat, d int) float64 {
+	scale := new(big.Int).Exp(big.NewInt(10), big.NewInt(int64(d)), nil)
+	x := new(big.Rat).Mul(r, new(big.Rat).SetInt(scale))
+	num, den := new(big.Int).Abs(x.Num()), x.Denom()
+	// q = floor(|x| + 1/2) = (2·num + den) div (2·den)
+	q := new(big.Int).Add(new(big.Int).Lsh(num, 1), den)
+	q.Quo(q, new(big.Int).Lsh(den, 1))
+	if x.Sign() < 0 {
+		q.Neg(q)
+	}
+	f, _ := new(big.Rat).SetFrac(q, scale).Float64()
+	return f
 }
 
 // Report is the whole chain: it cleans each upload, puts the readings
