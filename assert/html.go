@@ -1,0 +1,281 @@
+package assert
+
+import (
+	"fmt"
+	"html"
+	"strconv"
+	"strings"
+)
+
+// HTMLChangedCell is the class HTML gives every element that shows one
+// differing cell, and no other element: a page can style them, and a test
+// can count them (one per entry of Diff.Cells).
+const HTMLChangedCell = "ps-changed"
+
+// HTML writes the Diff as an HTML fragment for a review page: a <div
+// class="ps-diff"> holding the verdict, the row counts, then problems,
+// schema changes, a grid of the rows with differing cells (one column per
+// column that differs, each differing cell a <td class="ps-changed">
+// showing want in <del> and got in <ins> with the distance), missing and
+// extra rows, repeated keys and the column summaries. Every piece of text
+// from the tables — cells, column names, keys — is HTML-escaped, so no
+// cell can add markup or script to the page. The fragment carries no
+// style and no script; its classes all start with "ps-". The output is the
+// same for the same Diff.
+func (d *Diff) HTML() string {
+	if d == nil {
+		d = &Diff{}
+	}
+	h := &htmlWriter{}
+	h.open("div", "ps-diff", "data-equal", strconv.FormatBool(d.Equal()), "data-cells", strconv.Itoa(len(d.Cells)))
+	h.elem("p", "ps-verdict", capitalise(d.headline()))
+	h.elem("p", "ps-match", d.matchLine())
+	if d.Equal() {
+		h.close("div")
+		return h.String()
+	}
+	if len(d.Problems) > 0 {
+		h.heading("Problems")
+		h.open("ul", "ps-problems")
+		for _, p := range d.Problems {
+			h.elem("li", "", p)
+		}
+		h.close("ul")
+	}
+	if len(d.Schema) > 0 {
+		h.heading(fmt.Sprintf("Schema changes (%d)", len(d.Schema)))
+		h.table("ps-schema", []string{"column", "change", "want", "got"})
+		for _, s := range d.Schema {
+			h.raw("<tr>")
+			h.elem("td", "ps-name", s.Column)
+			h.elem("td", "", describeChange(s.Change))
+			h.elem("td", "ps-want", s.Want)
+			h.elem("td", "ps-got", s.Got)
+			h.raw("</tr>\n")
+		}
+		h.endTable()
+	}
+	if len(d.Cells) > 0 {
+		h.heading(fmt.Sprintf("Differing cells (%d%s)", d.CellsDiffering, shown(len(d.Cells), d.CellsDiffering)))
+		d.htmlGrid(h)
+	} else if d.CellsDiffering > 0 {
+		h.heading(fmt.Sprintf("Differing cells (%d, none listed)", d.CellsDiffering))
+	}
+	d.htmlRows(h, "Missing rows: in want, not in got", "ps-missing", d.Missing, d.WantColumns)
+	d.htmlRows(h, "Extra rows: in got, not in want", "ps-extra", d.Extra, d.GotColumns)
+	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
+		h.heading(fmt.Sprintf("Repeated keys (want %d, got %d%s)", d.Duplicates.WantKeys, d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
+		h.table("ps-dups", []string{"side", "key", "rows", "at rows"})
+		for _, k := range d.Duplicates.Keys {
+			at := make([]string, len(k.Rows))
+			for i, r := range k.Rows {
+				at[i] = strconv.Itoa(r)
+			}
+			if len(k.Rows) < k.Count {
+				at = append(at, "…")
+			}
+			h.raw("<tr>")
+			h.elem("td", "", string(k.Side))
+			h.elem("td", "ps-key", "("+strings.Join(k.Key, ", ")+")")
+			h.elem("td", "ps-num", strconv.Itoa(k.Count))
+			h.elem("td", "", strings.Join(at, ", "))
+			h.raw("</tr>\n")
+		}
+		h.endTable()
+	}
+	if cols := d.notableColumns(); len(cols) > 0 {
+		h.heading("Columns")
+		h.table("ps-columns", []string{"column", "compared", "differing", "max Δabs", "at", "max Δrel", "at"})
+		for _, c := range cols {
+			row := []string{"", "", "", ""}
+			if c.HasDelta && c.MaxAbsAt.Want >= 0 {
+				row[0], row[1] = formatAbs(c.MaxAbs, c.WantType.Kind()), d.rowName(c.MaxAbsAt)
+				if !isTimeKind(c.WantType.Kind()) && !isTimeKind(c.GotType.Kind()) && c.MaxRelAt.Want >= 0 {
+					row[2], row[3] = formatRel(c.MaxRel), d.rowName(c.MaxRelAt)
+				}
+			}
+			h.raw("<tr>")
+			h.elem("td", "ps-name", c.Name)
+			h.elem("td", "", c.Rule)
+			h.elem("td", "ps-num", strconv.Itoa(c.Differing))
+			h.elem("td", "ps-num", row[0])
+			h.elem("td", "", row[1])
+			h.elem("td", "ps-num", row[2])
+			h.elem("td", "", row[3])
+			h.raw("</tr>\n")
+		}
+		h.endTable()
+	}
+	h.close("div")
+	return h.String()
+}
+
+// htmlGrid writes the listed differing cells as a grid: one line per row
+// (keys or row index first), one column per column with a listed
+// difference, in want's column order.
+func (d *Diff) htmlGrid(h *htmlWriter) {
+	type gridRow struct {
+		ref   RowRef
+		cells map[string]int // column → index in d.Cells
+	}
+	var rows []*gridRow
+	byRow := map[[2]int]*gridRow{}
+	used := map[string]bool{}
+	for i, c := range d.Cells {
+		id := [2]int{c.Row.Want, c.Row.Got}
+		r := byRow[id]
+		if r == nil {
+			r = &gridRow{ref: c.Row, cells: map[string]int{}}
+			byRow[id] = r
+			rows = append(rows, r)
+		}
+		r.cells[c.Column] = i
+		used[c.Column] = true
+	}
+	var cols []string
+	for _, name := range d.Compared {
+		if used[name] {
+			cols = append(cols, name)
+			delete(used, name)
+		}
+	}
+	for _, c := range d.Cells { // columns not among Compared (not expected), in listing order
+		if used[c.Column] {
+			cols = append(cols, c.Column)
+			delete(used, c.Column)
+		}
+	}
+	keyed := d.Match == MatchByKey && len(d.Keys) > 0
+	head := []string{"row"}
+	if keyed {
+		head = append([]string(nil), d.Keys...)
+	}
+	h.table("ps-grid", append(head, cols...))
+	for _, r := range rows {
+		h.raw("<tr>")
+		if keyed {
+			for _, k := range r.ref.Key {
+				h.elem("th", "ps-key", k)
+			}
+		} else {
+			h.elem("th", "ps-key", d.rowIndex(r.ref))
+		}
+		for _, col := range cols {
+			i, ok := r.cells[col]
+			if !ok {
+				h.raw(`<td class="ps-same"></td>`)
+				continue
+			}
+			d.htmlCell(h, d.Cells[i])
+		}
+		h.raw("</tr>\n")
+	}
+	h.endTable()
+}
+
+// htmlCell writes one differing cell: want struck out, got inserted, the
+// distance or the character edit below.
+func (d *Diff) htmlCell(h *htmlWriter, c CellDiff) {
+	note := ""
+	if c.Delta.Has {
+		note = "Δ " + formatAbs(c.Delta.Abs, c.Want.Kind)
+		if c.Delta.HasULPs {
+			note += " (" + strconv.FormatUint(c.Delta.ULPs, 10) + " ulp)"
+		}
+		if !isTimeKind(c.Want.Kind) && !isTimeKind(c.Got.Kind) && c.Delta.Rel != 0 {
+			note += ", rel " + formatRel(c.Delta.Rel)
+		}
+	} else if c.Want.Kind.IsText() && c.Got.Kind.IsText() && !c.Want.Null && !c.Got.Null {
+		ws, _ := c.Want.Value.(string)
+		gs, _ := c.Got.Value.(string)
+		if e, ok := textEdit(ws, gs, editStyle{}); ok {
+			note = e
+		}
+	}
+	h.open("td", HTMLChangedCell, "data-column", c.Column)
+	h.elem("del", cellClass(c.Want), c.Want.Text)
+	h.elem("ins", cellClass(c.Got), c.Got.Text)
+	if note != "" {
+		h.elem("small", "ps-note", note)
+	}
+	h.raw("</td>")
+}
+
+func cellClass(c Cell) string {
+	if c.Null {
+		return "ps-null"
+	}
+	return ""
+}
+
+// htmlRows writes missing or extra rows as a table of their cells.
+func (d *Diff) htmlRows(h *htmlWriter, title, class string, l RowList, cols []string) {
+	if l.Count == 0 {
+		return
+	}
+	h.heading(fmt.Sprintf("%s (%d%s)", title, l.Count, shown(len(l.Rows), l.Count)))
+	h.table("ps-rows "+class, append([]string{"row"}, cols...))
+	for _, r := range l.Rows {
+		idx := r.Want
+		if idx < 0 {
+			idx = r.Got
+		}
+		h.raw("<tr>")
+		h.elem("th", "ps-key", strconv.Itoa(idx))
+		for _, c := range r.Cells {
+			h.elem("td", "", c)
+		}
+		h.raw("</tr>\n")
+	}
+	h.endTable()
+}
+
+// htmlWriter builds escaped HTML. Only its own literal markup is written
+// raw; every text and attribute value goes through html.EscapeString.
+type htmlWriter struct {
+	b strings.Builder
+}
+
+func (h *htmlWriter) String() string { return h.b.String() }
+
+func (h *htmlWriter) raw(s string) { h.b.WriteString(s) }
+
+// open writes a start tag with a class (when not empty) and attribute
+// name/value pairs.
+func (h *htmlWriter) open(tag, class string, attrs ...string) {
+	h.b.WriteString("<" + tag)
+	if class != "" {
+		h.b.WriteString(` class="` + html.EscapeString(class) + `"`)
+	}
+	for i := 0; i+1 < len(attrs); i += 2 {
+		h.b.WriteString(" " + attrs[i] + `="` + html.EscapeString(attrs[i+1]) + `"`)
+	}
+	h.b.WriteString(">")
+}
+
+func (h *htmlWriter) close(tag string) { h.b.WriteString("</" + tag + ">\n") }
+
+// elem writes <tag class=…>text</tag> with the text escaped.
+func (h *htmlWriter) elem(tag, class, text string) {
+	h.open(tag, class)
+	h.b.WriteString(html.EscapeString(text))
+	h.b.WriteString("</" + tag + ">")
+}
+
+func (h *htmlWriter) heading(title string) {
+	h.elem("h4", "ps-heading", title)
+	h.raw("\n")
+}
+
+// table opens a scrollable table with a header row.
+func (h *htmlWriter) table(class string, head []string) {
+	h.raw(`<div class="ps-scroll">`)
+	h.open("table", class)
+	h.raw("<thead><tr>")
+	for _, c := range head {
+		h.elem("th", "", c)
+	}
+	h.raw("</tr></thead>\n<tbody>\n")
+}
+
+func (h *htmlWriter) endTable() { h.raw("</tbody></table></div>\n") }
