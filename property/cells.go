@@ -60,30 +60,63 @@ func Spell(clean any, t fixtures.Type) (s string, ok bool) {
 		return v.String(), true
 	case time.Time:
 		if t.Kind() == fixtures.KindDate {
-			return v.Format("2006-01-02"), true
+			var buf [10]byte
+			return string(appendDate(buf[:0], v)), true
 		}
 		return formatTimestamp(v, t), true
 	}
 	return "", false
 }
 
+// formatTimestamp writes v as fixtures writes a timestamp of type t:
+// 2006-01-02T15:04:05 with the unit's fraction, trailing zeros dropped,
+// then nothing (zone-less), Z (UTC) or the offset of v's zone.
 func formatTimestamp(v time.Time, t fixtures.Type) string {
-	layout := "2006-01-02T15:04:05"
-	switch t.Unit() {
-	case fixtures.Millis:
-		layout += ".999"
-	case fixtures.Micros:
-		layout += ".999999"
-	case fixtures.Nanos:
-		layout += ".999999999"
+	zone := t.Zone()
+	if zone == "UTC" || zone == "Z" {
+		v = v.UTC()
 	}
-	switch t.Zone() {
+	var buf [40]byte
+	b := appendDate(buf[:0], v)
+	hh, mm, ss := v.Clock()
+	b = append(b, 'T', byte('0'+hh/10), byte('0'+hh%10), ':', byte('0'+mm/10), byte('0'+mm%10), ':', byte('0'+ss/10), byte('0'+ss%10))
+	if digits := int(t.Unit()) * 3; digits > 0 && v.Nanosecond() != 0 {
+		ns := v.Nanosecond()
+		var frac [9]byte
+		for i := 8; i >= 0; i-- {
+			frac[i] = byte('0' + ns%10)
+			ns /= 10
+		}
+		f := frac[:digits]
+		for len(f) > 0 && f[len(f)-1] == '0' {
+			f = f[:len(f)-1]
+		}
+		if len(f) > 0 {
+			b = append(b, '.')
+			b = append(b, f...)
+		}
+	}
+	switch zone {
 	case "":
-		return v.Format(layout)
 	case "UTC", "Z":
-		return v.UTC().Format(layout + "Z")
+		b = append(b, 'Z')
+	default:
+		_, off := v.Zone()
+		sign := byte('+')
+		if off < 0 {
+			sign, off = '-', -off
+		}
+		h, m := off/3600, off/60%60
+		b = append(b, sign, byte('0'+h/10), byte('0'+h%10), ':', byte('0'+m/10), byte('0'+m%10))
 	}
-	return v.Format(layout + "Z07:00")
+	return string(b)
+}
+
+// appendDate appends the calendar day of t as YYYY-MM-DD (years 1 to 9999).
+func appendDate(b []byte, t time.Time) []byte {
+	y, m, d := t.Date()
+	return append(b, byte('0'+y/1000), byte('0'+y/100%10), byte('0'+y/10%10), byte('0'+y%10), '-',
+		byte('0'+int(m)/10), byte('0'+int(m)%10), '-', byte('0'+d/10), byte('0'+d%10))
 }
 
 // value is a clean value being spelled, with the parts the spellers use.
@@ -118,6 +151,8 @@ type colGen struct {
 	edge       bool // edge space may be added on top of another mess
 	levels     []level
 	loc        *time.Location
+	maxToken   int   // the longest null token or sentinel, in bytes
+	tmp        value // scratch for the value being spelled; a colGen makes one cell at a time
 }
 
 // speller spells v in one messy way; ok is false when the mess does not
@@ -172,6 +207,9 @@ func newColGen(f fixtures.Field, c *config) *colGen {
 			}
 		}
 	}
+	for _, t := range append(append([]string{}, g.nullTokens...), g.sentinels...) {
+		g.maxToken = max(g.maxToken, len(t))
+	}
 	for _, sp := range spellersFor(g) {
 		if c.allowed[sp.mess] {
 			g.spellers = append(g.spellers, sp)
@@ -211,9 +249,10 @@ func (g *colGen) next(r *rng) Messy {
 			return Messy{Raw: s, Mess: MessSentinel}
 		}
 	}
-	var v value
-	g.value(r, &v)
-	return g.spell(r, &v)
+	v := &g.tmp
+	*v = value{}
+	g.value(r, v)
+	return g.spell(r, v)
 }
 
 // null makes a null cell: the empty field or one of the null tokens.
@@ -266,7 +305,8 @@ func (g *colGen) respell(r *rng, m Messy) Messy {
 	if !ok {
 		return m
 	}
-	return g.spell(r, &v)
+	g.tmp = v
+	return g.spell(r, &g.tmp)
 }
 
 // valueOf rebuilds the spelling parts of a cell's clean value.
@@ -405,7 +445,7 @@ func (g *colGen) intValue(r *rng, v *value) {
 		if v.neg {
 			x = -x
 		}
-		if g.isSentinel(float64(x)) && try < 8 {
+		if len(g.sentNums) > 0 && g.isSentinel(float64(x)) && try < 8 {
 			continue
 		}
 		v.clean, v.plain = x, strconv.FormatInt(x, 10)
@@ -424,7 +464,7 @@ func (g *colGen) floatValue(r *rng, v *value) {
 	for try := 0; ; try++ {
 		g.drawNumber(r, v, maxInt, min(g.cfg.decimals, max(0, 15-maxInt)), false)
 		x, _ := strconv.ParseFloat(numberText(v.neg, v.intd, v.frac), 64)
-		if g.isSentinel(x) && try < 8 {
+		if len(g.sentNums) > 0 && g.isSentinel(x) && try < 8 {
 			continue
 		}
 		v.clean, v.plain = x, fixtures.FormatFloat(x)
@@ -438,14 +478,21 @@ func (g *colGen) decimalValue(r *rng, v *value) {
 	for try := 0; ; try++ {
 		g.drawNumber(r, v, maxInt, t.Scale(), true)
 		plain := numberText(v.neg, v.intd, v.frac)
-		d, err := fixtures.ParseDecimal(plain)
-		if err != nil { // cannot happen: plain is digits
-			d = fixtures.NewDecimal(0, t.Scale())
+		if len(g.sentNums) > 0 && try < 8 {
+			if f, err := strconv.ParseFloat(plain, 64); err == nil && g.isSentinel(f) {
+				continue
+			}
 		}
-		if g.isSentinel(d.Float64()) && try < 8 {
-			continue
+		var d fixtures.Decimal
+		if u, err := strconv.ParseInt(v.intd+v.frac, 10, 64); err == nil {
+			if v.neg {
+				u = -u
+			}
+			d = fixtures.NewDecimal(u, t.Scale()) // up to 18 digits: no big numbers
+		} else if d, err = fixtures.ParseDecimal(plain); err != nil {
+			d = fixtures.NewDecimal(0, t.Scale()) // cannot happen: plain is digits
 		}
-		v.clean, v.plain = d, d.String()
+		v.clean, v.plain = d, plain
 		return
 	}
 }
@@ -477,7 +524,8 @@ func (g *colGen) dateValue(r *rng, v *value) {
 	for try := 0; ; try++ {
 		day := floorDiv(r.between(c.dateFrom, c.dateTo), 86400)
 		t := time.Unix(day*86400, 0).UTC()
-		plain := t.Format("2006-01-02")
+		var buf [10]byte
+		plain := string(appendDate(buf[:0], t))
 		if try < 8 && containsStr(g.sentinels, plain) {
 			continue
 		}

@@ -3,6 +3,7 @@ package property
 import (
 	"fmt"
 	"reflect"
+	"sync"
 
 	"github.com/leanovate/gopter"
 
@@ -61,7 +62,10 @@ func Spelled(f fixtures.Field, m Mess, opts Options) gopter.Gen {
 }
 
 func cellGen(g *colGen, want Mess) gopter.Gen {
+	var mu sync.Mutex // g makes one cell at a time; gopter may draw from several workers
 	return func(p *gopter.GenParameters) *gopter.GenResult {
+		mu.Lock()
+		defer mu.Unlock()
 		r := newRng(p.Rng.Int63())
 		m := g.next(r)
 		for try := 0; want != MessNone && !m.Mess.Has(want) && try < 50; try++ {

@@ -86,10 +86,13 @@ const (
 
 // Has reports whether m includes the single mess one.
 func (m Mess) Has(one Mess) bool {
-	for _, p := range m.Parts() {
-		if p == one {
-			return true
+	s := string(m)
+	for s != "" {
+		part, rest, _ := strings.Cut(s, "+")
+		if part == string(one) {
+			return one != ""
 		}
+		s = rest
 	}
 	return false
 }

@@ -345,8 +345,13 @@ func (g *colGen) stringValue(r *rng, v *value) {
 			b = word(b, r)
 		}
 		b = b[:c.longText]
-		for len(b) > 0 && !utf8.Valid(b) { // cut inside a letter: drop its start
-			b = b[:len(b)-1]
+		if k := len(b) - 1; k >= 0 && b[k] >= 0x80 { // maybe cut inside a letter: drop its start
+			for k > 0 && !utf8.RuneStart(b[k]) {
+				k--
+			}
+			if !utf8.FullRune(b[k:]) {
+				b = b[:k]
+			}
 		}
 		for len(b) < c.longText {
 			b = append(b, 'a')
@@ -388,6 +393,9 @@ func (g *colGen) stringValue(r *rng, v *value) {
 
 // isToken reports whether s is a null token or sentinel of the column.
 func (g *colGen) isToken(s string) bool {
+	if len(s) > g.maxToken {
+		return false
+	}
 	for _, t := range g.nullTokens {
 		if strings.EqualFold(t, s) {
 			return true
