@@ -63,6 +63,7 @@ type comparison struct {
 	cols      []*colCmp // compared columns, in want's order
 	keyCols   []*colCmp // key columns (ByKey), in key order
 	pairs     pairing
+	reorder   *reorder // keyed pairings of large tables: got rows by want range
 }
 
 // checkNames reports options that name columns neither table has.

@@ -693,3 +693,67 @@ func TestNullsInEveryKind(t *testing.T) {
 		require.NotEqual(t, c.Want.Null, c.Got.Null)
 	}
 }
+
+func TestKeyedLargeAgreesWithSortedPositional(t *testing.T) {
+	// Large enough for the reordered (scatter) kernels of every kind; the
+	// keyed result must equal the positional result against got sorted
+	// back into want's order.
+	const n = 70000
+	schema := fixtures.Schema{
+		fixtures.Col("id", fixtures.Int64), fixtures.Col("s", fixtures.String), fixtures.Col("c", fixtures.Category),
+		fixtures.Col("i", fixtures.Int64), fixtures.Col("d", fixtures.Date), fixtures.Col("f", fixtures.Float64),
+	}
+	day := time.Date(2026, 4, 1, 0, 0, 0, 0, time.UTC)
+	levels := []string{"ok", "fault", "calibrating"}
+	wb, gb := fixtures.NewBuilder(schema), fixtures.NewBuilder(schema)
+	for i := range n {
+		wb.Row(i*3, "h"+itoa(i%997), levels[i%3], i%50, day.AddDate(0, 0, i%40), float64(i)/7)
+	}
+	for r := range n {
+		i := (r*7919 + 13) % n // a permutation of 0..n-1 (7919 is prime, n is not a multiple)
+		s, c, iv, f := "h"+itoa(i%997), levels[i%3], i%50, float64(i)/7
+		switch i % 101 {
+		case 1:
+			s += "!"
+		case 2:
+			c = levels[(i+1)%3]
+		case 3:
+			iv++
+		case 4:
+			f += 0.5
+		}
+		d := day.AddDate(0, 0, i%40)
+		if i%103 == 5 {
+			d = d.AddDate(0, 0, 1)
+		}
+		gb.Row(i*3, s, c, iv, d, f)
+	}
+	want, got := wb.MustBuild(t), gb.MustBuild(t)
+	sorted, err := got.SortBy("id")
+	require.NoError(t, err)
+	keyed := Compare(want, got, ByKey("id"), Tol("f", 0.1, 0))
+	positional := Compare(want, sorted, Tol("f", 0.1, 0))
+	require.Equal(t, positional.CellsDiffering, keyed.CellsDiffering)
+	require.Equal(t, positional.RowsDiffering, keyed.RowsDiffering)
+	require.Positive(t, keyed.CellsDiffering)
+	for j := range keyed.Columns {
+		k, p := keyed.Columns[j], positional.Columns[j]
+		require.Equal(t, p.Differing, k.Differing, k.Name)
+		require.Equal(t, p.MaxAbs, k.MaxAbs, k.Name)
+		require.Equal(t, p.MaxAbsAt.Want, k.MaxAbsAt.Want, k.Name)
+	}
+	for j := range keyed.Cells {
+		require.Equal(t, positional.Cells[j].Row.Want, keyed.Cells[j].Row.Want)
+		require.Equal(t, positional.Cells[j].Column, keyed.Cells[j].Column)
+		require.Equal(t, positional.Cells[j].Got.Text, keyed.Cells[j].Got.Text)
+	}
+	// Rows missing from got leave holes in the reordered buffers; they must
+	// not show up as differing cells.
+	part, err := got.Slice(0, n/2).SortBy("id")
+	require.NoError(t, err)
+	d := Compare(want, part, ByKey("id"), Tol("f", 0.1, 0))
+	require.Equal(t, n-n/2, d.Missing.Count)
+	rest := Compare(want, got.Slice(0, n/2), ByKey("id"), Tol("f", 0.1, 0))
+	require.Equal(t, d.CellsDiffering, rest.CellsDiffering)
+	require.Less(t, d.CellsDiffering, keyed.CellsDiffering)
+}

@@ -180,7 +180,7 @@ func (cc *colCmp) eqSides(a Side, i int, b Side, j int) bool {
 // row with these cells" means the same as in one big table.
 
 // partitionRows is about how many rows of a side a partition holds.
-const partitionRows = 1024
+const partitionRows = 1 << 12
 
 // partitioned holds one side's rows sorted by partition: hashes and row
 // indexes, with start[p] the first entry of partition p.
@@ -241,6 +241,8 @@ type joined struct {
 	// gotOnly maps the first got row of cells want lacks to the later got
 	// rows with them.
 	gotOnly map[int32][]int32
+	// spare is the partitions' memory, free once the join is done.
+	spare spares
 }
 
 // joinRows groups the rows of both sides by their matching cells. Large
@@ -292,6 +294,10 @@ func joinRows(k *rowKeys, nw, ng int) *joined {
 		}()
 	}
 	wg.Wait()
+	out.spare = spares{wantRows: w.row, gotRows: g.row, words: w.h}
+	if len(g.h) > len(w.h) {
+		out.spare.words = g.h
+	}
 	for _, local := range parts {
 		maps.Copy(out.wantMore, local.wantMore)
 		maps.Copy(out.laterGot, local.laterGot)
@@ -395,6 +401,9 @@ func (c *comparison) matchByKey() {
 	jn := joinRows(k, nw, ng)
 	gOf, matched := pairInOrder(jn, ng)
 	c.pairs = pairing{n: nw, g: gOf}
+	if nw*len(c.cols) >= parallelCells && runtime.GOMAXPROCS(0) > 1 {
+		c.reorder = newReorder(gOf, ng, jn.spare)
+	}
 	for i, gi := range gOf {
 		if gi < 0 {
 			c.addMissing(i)
