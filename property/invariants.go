@@ -141,18 +141,24 @@ func indent(s, by string) string {
 	return by + strings.ReplaceAll(s, "\n", "\n"+by)
 }
 
-// second checks a second run for trouble and errors.
-func second(o outcome, what string, errorsOK bool) (string, bool) {
-	if m := o.trouble(what); m != "" {
-		return m, false
-	}
-	if o.err != nil {
-		if errorsOK {
-			return "", false
+// comparing builds an invariant that runs something else on the trial
+// (other) and compares its result with the function's own under opts.
+// what names the other run in messages; heading leads the diff. The other
+// run's result is the one wanted when otherIsWant, else the function's.
+func comparing(name, what, heading string, otherIsWant bool, opts []assert.Option, other func(tr *trial, base outcome) outcome) Invariant {
+	return Invariant{name: name, check: func(tr *trial, base outcome) string {
+		o := other(tr, base)
+		if m := o.trouble(what); m != "" {
+			return m
 		}
-		return fmt.Sprintf("%s returned an error: %v", what, o.err), false
-	}
-	return "", true
+		if o.err != nil {
+			return fmt.Sprintf("%s returned an error: %v", what, o.err)
+		}
+		if otherIsWant {
+			return compare(heading, o.out, base.out, opts)
+		}
+		return compare(heading, base.out, o.out, opts)
+	}}
 }
 
 // NoPanic checks that the function never panics and returns a table or an
@@ -165,13 +171,9 @@ func NoPanic() Invariant { return Invariant{name: "no panic"} }
 // FileFunc the output is written as CSV in the input's style and loaded
 // again.
 func Idempotent(opts ...assert.Option) Invariant {
-	return Invariant{name: "idempotent", check: func(tr *trial, base outcome) string {
-		o := tr.again(base.out)
-		if m, ok := second(o, "the function on its own output", false); !ok {
-			return m
-		}
-		return compare("f(f(raw)) differs from f(raw) (want f(raw), got f(f(raw)))", base.out, o.out, opts)
-	}}
+	return comparing("idempotent", "the function on its own output",
+		"f(f(raw)) differs from f(raw) (want f(raw), got f(f(raw)))", false, opts,
+		func(tr *trial, base outcome) outcome { return tr.again(base.out) })
 }
 
 // OrderFree checks that the order of the input rows does not matter: the
@@ -182,14 +184,9 @@ func OrderFree(opts ...assert.Option) Invariant {
 	if len(assert.KeyColumns(opts...)) == 0 {
 		opts = append(slices.Clip(opts), assert.AnyRowOrder())
 	}
-	return Invariant{name: "row order free", check: func(tr *trial, base outcome) string {
-		sh := tr.sample.Shuffled(tr.sample.Seed ^ 0x0dd5)
-		o := tr.run(sh)
-		if m, ok := second(o, "the function on the shuffled rows", false); !ok {
-			return m
-		}
-		return compare("the result for the shuffled rows differs (want the result for the rows in order, got that for the rows shuffled)", base.out, o.out, opts)
-	}}
+	return comparing("row order free", "the function on the shuffled rows",
+		"the result for the shuffled rows differs (want the result for the rows in order, got that for the rows shuffled)", false, opts,
+		func(tr *trial, _ outcome) outcome { return tr.run(tr.sample.Shuffled(tr.sample.Seed ^ 0x0dd5)) })
 }
 
 // KeepsTotal checks that the sum of the clean values of input column in,
@@ -310,26 +307,20 @@ func NoNulls(cols ...string) Invariant {
 // and columns in their plain spellings (Sample.Simplified), compared under
 // the assert options.
 func SameOnPlain(opts ...assert.Option) Invariant {
-	return Invariant{name: "same on plain spellings", check: func(tr *trial, base outcome) string {
-		o := tr.run(tr.sample.Simplified())
-		if m, ok := second(o, "the function on the plain spellings", false); !ok {
-			return m
-		}
-		return compare("the result for the messy spellings differs from that for the plain ones (want plain, got messy)", o.out, base.out, opts)
-	}}
+	return comparing("same on plain spellings", "the function on the plain spellings",
+		"the result for the messy spellings differs from that for the plain ones (want plain, got messy)", true, opts,
+		func(tr *trial, _ outcome) outcome { return tr.run(tr.sample.Simplified()) })
 }
 
 // Agrees checks the function against a reference implementation given the
 // same raw table (for a FileFunc: the raw table the file holds), compared
 // under the assert options, the reference's result being the one wanted.
 func Agrees(ref Func, opts ...assert.Option) Invariant {
-	return Invariant{name: "agrees with the reference", check: func(tr *trial, base outcome) string {
-		o := call(func() (*fixtures.Table, error) { return ref(tr.sample.Raw()) })
-		if m, ok := second(o, "the reference", false); !ok {
-			return m
-		}
-		return compare("the result differs from the reference's (want reference, got function)", o.out, base.out, opts)
-	}}
+	return comparing("agrees with the reference", "the reference",
+		"the result differs from the reference's (want reference, got function)", true, opts,
+		func(tr *trial, _ outcome) outcome {
+			return call(func() (*fixtures.Table, error) { return ref(tr.sample.Raw()) })
+		})
 }
 
 // MatchesClean checks the function on the raw sample against a reference
@@ -338,13 +329,11 @@ func Agrees(ref Func, opts ...assert.Option) Invariant {
 // The reference can be plain code over typed values; the invariant says
 // the function undoes all the mess.
 func MatchesClean(ref Func, opts ...assert.Option) Invariant {
-	return Invariant{name: "matches the reference on clean data", check: func(tr *trial, base outcome) string {
-		o := call(func() (*fixtures.Table, error) { return ref(tr.sample.Clean()) })
-		if m, ok := second(o, "the reference on the clean table", false); !ok {
-			return m
-		}
-		return compare("the result differs from the reference's on the clean table (want reference, got function)", o.out, base.out, opts)
-	}}
+	return comparing("matches the reference on clean data", "the reference on the clean table",
+		"the result differs from the reference's on the clean table (want reference, got function)", true, opts,
+		func(tr *trial, _ outcome) outcome {
+			return call(func() (*fixtures.Table, error) { return ref(tr.sample.Clean()) })
+		})
 }
 
 // Holds checks a property of the user's own: check gets the sample and the

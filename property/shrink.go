@@ -156,13 +156,19 @@ const maxShrinkSteps = 10000
 // plainly and spelling cells plainly, taking the first candidate that
 // fails and starting again from it until none does.
 func Shrink(s *Sample, fails func(*Sample) bool) (*Sample, int) {
+	return greedy(s, shrinkStream, fails)
+}
+
+// greedy takes the first failing candidate of stream(v) and starts again
+// from it until none fails, at most maxShrinkSteps times.
+func greedy[T any](v T, stream func(T) func() (T, bool), fails func(T) bool) (T, int) {
 	steps := 0
 	for steps < maxShrinkSteps {
-		next := shrinkStream(s)
+		next := stream(v)
 		found := false
 		for c, ok := next(); ok; c, ok = next() {
 			if fails(c) {
-				s, found = c, true
+				v, found = c, true
 				steps++
 				break
 			}
@@ -171,7 +177,7 @@ func Shrink(s *Sample, fails func(*Sample) bool) (*Sample, int) {
 			break
 		}
 	}
-	return s, steps
+	return v, steps
 }
 
 // ShrinkTable shrinks any table for which fails reports true by dropping
@@ -300,20 +306,5 @@ func FileShrinker(v any) gopter.Shrink {
 
 // ShrinkFile is Shrink for a generated file.
 func ShrinkFile(f *File, fails func(*File) bool) (*File, int) {
-	steps := 0
-	for steps < maxShrinkSteps {
-		next := fileStream(f)
-		found := false
-		for c, ok := next(); ok; c, ok = next() {
-			if fails(c) {
-				f, found = c, true
-				steps++
-				break
-			}
-		}
-		if !found {
-			break
-		}
-	}
-	return f, steps
+	return greedy(f, fileStream, fails)
 }

@@ -119,22 +119,11 @@ func mojibakeOf(s string) (string, bool) {
 // not valid UTF-8, which is the case for most texts that were never
 // garbled.
 func UndoMojibake(s string) (clean string, ok bool) {
-	b := make([]byte, 0, len(s))
-	for _, r := range s {
-		if r < 0x80 {
-			b = append(b, byte(r))
-			continue
-		}
-		c, ok := charmap.Windows1252.EncodeRune(r)
-		if !ok {
-			return "", false
-		}
-		b = append(b, c)
-	}
-	if !utf8.Valid(b) {
+	b, ok := toWindows1252(s)
+	if !ok || !utf8.ValidString(b) {
 		return "", false
 	}
-	return string(b), true
+	return b, true
 }
 
 // toWindows1252 encodes s as Windows-1252 bytes (invalid UTF-8 when s has
