@@ -1,0 +1,450 @@
+package property
+
+import (
+	"errors"
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// GenSpec is what a schema file for generated raw files says: the columns,
+// the generator options and the CSV style. MessyCSV makes the bytes.
+//
+// A schema file is UTF-8 text, one statement per line:
+//
+//	# greenhouse datalogger uploads
+//	@delimiter ;
+//	@dates 2026-03-01 2026-06-30
+//	@null-rate 0.08
+//	house   category      levels="Étang|Les Pins|Mühlbach"
+//	at      timestamp(s)
+//	temp_c  float64
+//	kept    int64
+//	note    string
+//
+//   - A line starting with # is a comment; blank lines are skipped.
+//   - A column line is NAME TYPE [OPTION…]: the name, then a type as a
+//     literal table header spells it (bool, int64, float64, string,
+//     category, date, timestamp(UNIT[, ZONE]), decimal(P, S)). Columns
+//     come out in the order of their lines. A category column may give
+//     levels=A|B|C, its values (without it, invented house names).
+//   - A setting line is @NAME [VALUE…]:
+//     @mess none|light|heavy; @encoding utf-8|utf-8-bom|utf-16le|windows-1252;
+//     @delimiter , ; | or tab; @quoting minimal|all|text|mixed;
+//     @line-ending lf|crlf|mixed; @null-rate, @mess-rate, @duplicate-rate,
+//     @sentinel-rate, @extreme-rate R (a share from 0 to 1; 0 turns it off);
+//     @dates FROM TO (YYYY-MM-DD, the range of dates and timestamps);
+//     @null-tokens A|B|…; @sentinels A|B|…; @spellings M M…, @avoid M M…
+//     (mess names, see AllMesses); @extra-columns N, @missing-columns N;
+//     @max-digits N, @decimals N, @max-words N; @shuffle, @shuffle-columns,
+//     @header-mess (no value: on).
+//   - A name or value holding blanks, # or = is written in double quotes
+//     as a Go string literal: "air temp", levels="Les Pins|Étang".
+type GenSpec struct {
+	Schema  fixtures.Schema
+	Options Options
+	Style   CSVStyle
+}
+
+// CSV generates rows data rows from the spec, deterministically from
+// seed: the same spec, rows and seed always give the same bytes.
+func (s *GenSpec) CSV(rows int, seed int64) ([]byte, error) {
+	return MessyCSV(s.Schema, rows, seed, s.Options, s.Style)
+}
+
+// ParseGenSpec reads a schema file (see GenSpec). name is used in error
+// messages, which are *fixtures.ParseError values with line and column.
+// The spec is checked as the generators would check it, so a spec that
+// parses can generate.
+func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
+	spec := &GenSpec{}
+	src := strings.TrimPrefix(string(text), "\ufeff")
+	lines := strings.Split(src, "\n")
+	seen := map[string]int{}
+	for i, raw := range lines {
+		n := i + 1
+		line := strings.TrimRight(raw, "\r")
+		trimmed := strings.TrimSpace(line)
+		if trimmed == "" || strings.HasPrefix(trimmed, "#") {
+			continue
+		}
+		col := len(line) - len(strings.TrimLeft(line, " \t")) + 1
+		toks, err := specTokens(line)
+		if err != nil {
+			return nil, &fixtures.ParseError{Path: name, Line: n, Column: err.col, Err: err.err}
+		}
+		fail := func(t specToken, format string, args ...any) error {
+			return &fixtures.ParseError{Path: name, Line: n, Column: t.col, Err: fmt.Errorf(format, args...)}
+		}
+		if strings.HasPrefix(toks[0].text, "@") && !toks[0].quoted {
+			if err := spec.setting(toks, fail); err != nil {
+				return nil, err
+			}
+			continue
+		}
+		if len(toks) < 2 {
+			return nil, &fixtures.ParseError{Path: name, Line: n, Column: col, Err: fmt.Errorf("column %q has no type: want NAME TYPE [levels=A|B]", toks[0].value)}
+		}
+		cname := toks[0].value
+		if prev, dup := seen[cname]; dup {
+			return nil, fail(toks[0], "column %q is already defined on line %d", cname, prev)
+		}
+		seen[cname] = n
+		typ, terr := fixtures.ParseType(toks[1].text)
+		if terr != nil {
+			return nil, fail(toks[1], "%v", terr)
+		}
+		spec.Schema = append(spec.Schema, fixtures.Col(cname, typ))
+		for _, opt := range toks[2:] {
+			key, val, ok := strings.Cut(opt.text, "=")
+			if opt.quoted || !ok {
+				return nil, fail(opt, "want an option KEY=VALUE, got %q", opt.text)
+			}
+			val = opt.value
+			switch key {
+			case "levels":
+				if typ.Kind() != fixtures.KindCategory {
+					return nil, fail(opt, "levels are for category columns; %q is %s", cname, typ)
+				}
+				levels := splitBar(val)
+				if len(levels) == 0 {
+					return nil, fail(opt, "no levels given")
+				}
+				if spec.Options.Levels == nil {
+					spec.Options.Levels = map[string][]string{}
+				}
+				spec.Options.Levels[cname] = levels
+			default:
+				return nil, fail(opt, "unknown column option %q (want levels)", key)
+			}
+		}
+	}
+	if len(spec.Schema) == 0 {
+		return nil, &fixtures.ParseError{Path: name, Err: errors.New("no columns: want one line per column, NAME TYPE")}
+	}
+	if err := spec.Options.Validate(spec.Schema); err != nil {
+		return nil, &fixtures.ParseError{Path: name, Err: err}
+	}
+	if _, err := spec.Style.norm(); err != nil {
+		return nil, &fixtures.ParseError{Path: name, Err: err}
+	}
+	return spec, nil
+}
+
+// setting applies one @ line.
+func (s *GenSpec) setting(toks []specToken, fail func(specToken, string, ...any) error) error {
+	key := strings.ToLower(toks[0].text[1:])
+	args := toks[1:]
+	one := func() (specToken, error) {
+		if len(args) != 1 {
+			return specToken{}, fail(toks[0], "@%s takes one value, got %d", key, len(args))
+		}
+		return args[0], nil
+	}
+	rateOf := func(dst *float64) error {
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		r, perr := strconv.ParseFloat(v.value, 64)
+		if perr != nil || r < 0 || r > 1 {
+			return fail(v, "@%s: want a share from 0 to 1, got %q", key, v.value)
+		}
+		if r == 0 {
+			r = -1 // zero means the default in Options; written here it means none
+		}
+		*dst = r
+		return nil
+	}
+	countOf := func(dst *int, most int) error {
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		c, perr := strconv.Atoi(v.value)
+		if perr != nil || c < 0 || c > most {
+			return fail(v, "@%s: want a whole number from 0 to %d, got %q", key, most, v.value)
+		}
+		if c == 0 {
+			c = -1
+		}
+		*dst = c
+		return nil
+	}
+	flag := func(dst *bool) error {
+		if len(args) != 0 {
+			return fail(args[0], "@%s takes no value", key)
+		}
+		*dst = true
+		return nil
+	}
+	o, st := &s.Options, &s.Style
+	switch key {
+	case "mess":
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		m, perr := ParseMessLevel(v.value)
+		if perr != nil {
+			return fail(v, "%v", perr)
+		}
+		o.Mess = m
+	case "encoding":
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		e, perr := ParseEncoding(v.value)
+		if perr != nil {
+			return fail(v, "%v", perr)
+		}
+		st.Encoding = e
+	case "delimiter":
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		d, perr := ParseDelimiter(v.value)
+		if perr != nil {
+			return fail(v, "%v", perr)
+		}
+		st.Delimiter = d
+	case "quoting":
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		i := indexOf(quotingNames[:], strings.ToLower(v.value))
+		if i < 0 {
+			return fail(v, "@quoting: unknown style %q (want minimal, all, text or mixed)", v.value)
+		}
+		st.Quoting = Quoting(i)
+	case "line-ending":
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		i := indexOf([]string{"lf", "crlf", "mixed"}, strings.ToLower(v.value))
+		if i < 0 {
+			return fail(v, "@line-ending: unknown ending %q (want lf, crlf or mixed)", v.value)
+		}
+		st.LineEnding = LineEnding(i)
+	case "null-rate":
+		return rateOf(&o.NullRate)
+	case "mess-rate":
+		return rateOf(&o.MessRate)
+	case "duplicate-rate":
+		return rateOf(&o.DuplicateRate)
+	case "sentinel-rate":
+		return rateOf(&o.SentinelRate)
+	case "extreme-rate":
+		return rateOf(&o.ExtremeRate)
+	case "dates":
+		if len(args) != 2 {
+			return fail(toks[0], "@dates takes two dates, FROM TO (YYYY-MM-DD)")
+		}
+		var ts [2]time.Time
+		for i, a := range args {
+			t, perr := time.Parse(time.DateOnly, a.value)
+			if perr != nil {
+				return fail(a, "@dates: %q is not a date YYYY-MM-DD", a.value)
+			}
+			ts[i] = t
+		}
+		if ts[1].Before(ts[0]) {
+			return fail(args[1], "@dates: %s is before %s", args[1].value, args[0].value)
+		}
+		o.DateFrom, o.DateTo = ts[0], ts[1].Add(24*time.Hour-time.Second)
+	case "null-tokens", "sentinels":
+		v, err := one()
+		if err != nil {
+			return err
+		}
+		list := splitBar(v.value)
+		if key == "sentinels" {
+			o.Sentinels = list
+		} else {
+			o.NullTokens = append([]string{}, list...)
+		}
+	case "spellings", "avoid":
+		if len(args) == 0 {
+			return fail(toks[0], "@%s takes one or more mess names", key)
+		}
+		known := AllMesses()
+		var list []Mess
+		for _, a := range args {
+			m := Mess(a.value)
+			if indexOf(known, m) < 0 {
+				return fail(a, "@%s: unknown mess %q", key, a.value)
+			}
+			list = append(list, m)
+		}
+		if key == "avoid" {
+			o.Avoid = list
+		} else {
+			o.Spellings = list
+		}
+	case "extra-columns":
+		return countOf(&o.ExtraColumns, len(extraNames))
+	case "missing-columns":
+		return countOf(&o.MissingColumns, 1000)
+	case "max-digits":
+		return countOf(&o.MaxDigits, 15)
+	case "decimals":
+		return countOf(&o.Decimals, 6)
+	case "max-words":
+		return countOf(&o.MaxWords, 1000)
+	case "shuffle":
+		return flag(&o.Shuffle)
+	case "shuffle-columns":
+		return flag(&o.ShuffleColumns)
+	case "header-mess":
+		return flag(&o.HeaderMess)
+	default:
+		return fail(toks[0], "unknown setting %q", toks[0].text)
+	}
+	return nil
+}
+
+// ParseEncoding reads an encoding name CSVStyle takes: utf-8, utf-8-bom,
+// utf-16le or windows-1252 (any case; also utf8, cp1252).
+func ParseEncoding(s string) (fixtures.Encoding, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "utf-8", "utf8":
+		return fixtures.EncodingUTF8, nil
+	case "utf-8-bom", "utf8-bom":
+		return fixtures.EncodingUTF8BOM, nil
+	case "utf-16le", "utf16le":
+		return fixtures.EncodingUTF16LE, nil
+	case "windows-1252", "cp1252":
+		return fixtures.EncodingWindows1252, nil
+	}
+	return "", fmt.Errorf("unknown encoding %q (want utf-8, utf-8-bom, utf-16le or windows-1252)", s)
+}
+
+// ParseDelimiter reads a delimiter CSVStyle takes: , ; | or tab (also \t).
+func ParseDelimiter(s string) (rune, error) {
+	switch s {
+	case ",", ";", "|":
+		return rune(s[0]), nil
+	case "tab", `\t`, "\t":
+		return '\t', nil
+	}
+	return 0, fmt.Errorf("unknown delimiter %q (want , ; | or tab)", s)
+}
+
+func indexOf[T comparable](xs []T, x T) int {
+	for i, v := range xs {
+		if v == x {
+			return i
+		}
+	}
+	return -1
+}
+
+// splitBar splits a |-separated list, dropping empty items.
+func splitBar(s string) []string {
+	var out []string
+	for _, p := range strings.Split(s, "|") {
+		if p != "" {
+			out = append(out, p)
+		}
+	}
+	return out
+}
+
+// specToken is one word of a schema file line. text is the word as
+// written; value is what it means: for "x" the unquoted string, for
+// key="v" the unquoted v, else the text.
+type specToken struct {
+	text, value string
+	quoted      bool
+	col         int // 1-based byte column
+}
+
+type tokenError struct {
+	col int
+	err error
+}
+
+// specTokens splits a line into words at blanks outside double quotes and
+// parentheses.
+func specTokens(line string) ([]specToken, *tokenError) {
+	var toks []specToken
+	i := 0
+	for i < len(line) {
+		if c := line[i]; c == ' ' || c == '\t' {
+			i++
+			continue
+		}
+		if line[i] == '#' && len(toks) > 0 {
+			break // a comment after the statement
+		}
+		start := i
+		depth := 0
+		quoteAt := -1 // where a quoted part starts
+		for i < len(line) {
+			c := line[i]
+			if c == '"' {
+				end, ok := closingQuote(line, i)
+				if !ok {
+					return nil, &tokenError{i + 1, errors.New("quoted text has no closing quote")}
+				}
+				if quoteAt < 0 {
+					quoteAt = i
+				}
+				i = end
+				continue
+			}
+			if c == '(' {
+				depth++
+			} else if c == ')' {
+				depth--
+			} else if (c == ' ' || c == '\t') && depth <= 0 {
+				break
+			}
+			i++
+		}
+		text := line[start:i]
+		tok := specToken{text: text, value: text, col: start + 1}
+		if quoteAt >= 0 {
+			if quoteAt == start && text[len(text)-1] == '"' {
+				v, err := strconv.Unquote(text)
+				if err != nil {
+					return nil, &tokenError{start + 1, fmt.Errorf("bad quoted text %s", text)}
+				}
+				tok.value, tok.quoted = v, true
+			} else if eq := strings.IndexByte(text, '='); eq >= 0 && eq+1 == quoteAt-start && text[len(text)-1] == '"' {
+				v, err := strconv.Unquote(text[eq+1:])
+				if err != nil {
+					return nil, &tokenError{quoteAt + 1, fmt.Errorf("bad quoted text %s", text[eq+1:])}
+				}
+				tok.value = v
+			} else {
+				return nil, &tokenError{quoteAt + 1, fmt.Errorf("quotes must surround a whole word or the value after =, got %s", text)}
+			}
+		} else if eq := strings.IndexByte(text, '='); eq >= 0 {
+			tok.value = text[eq+1:]
+		}
+		toks = append(toks, tok)
+	}
+	return toks, nil
+}
+
+// closingQuote returns the index just past the double quote closing the
+// one at i, honouring backslash escapes.
+func closingQuote(s string, i int) (int, bool) {
+	for j := i + 1; j < len(s); j++ {
+		switch s[j] {
+		case '\\':
+			j++
+		case '"':
+			return j + 1, true
+		}
+	}
+	return 0, false
+}
