@@ -15,34 +15,49 @@ import (
 //
 // A schema file is UTF-8 text, one statement per line:
 //
-//		# greenhouse datalogger uploads
-//		@delimiter ;
-//		@dates 2026-03-01 2026-06-30
-//		@null-rate 0.08
-//		house   category      levels="Étang|Les Pins|Mühlbach"
-//		at      timestamp(s)
-//		temp_c  float64
-//		kept    int64
-//		note    string
+//	# greenhouse datalogger uploads
+//	@delimiter ;
+//	@dates 2026-03-01 2026-06-30
+//	@null-rate 0.08
+//	house   category      levels="Étang|Les Pins|Mühlbach"
+//	at      timestamp(s)
+//	temp_c  float64
+//	kept    int64
+//	note    string
 //
-//	  - A line starting with # is a comment; blank lines are skipped.
-//	  - A column line is NAME TYPE [OPTION…]: the name, then a type as a
-//	    literal table header spells it (bool, int64, float64, string,
-//	    category, date, timestamp(UNIT[, ZONE]), decimal(P, S)). Columns
-//	    come out in the order of their lines. A category column may give
-//	    levels=A|B|C, its values (without it, invented house names).
-//	  - A setting line is @NAME [VALUE…]:
-//	    @mess none|light|heavy; @encoding utf-8|utf-8-bom|utf-16le|windows-1252;
-//	    @delimiter , ; | or tab; @quoting minimal|all|text|mixed;
-//	    @line-ending lf|crlf|mixed; @null-rate, @mess-rate, @duplicate-rate,
-//	    @sentinel-rate, @extreme-rate R (a share from 0 to 1; 0 turns it off);
-//	    @dates FROM TO (YYYY-MM-DD, the range of dates and timestamps);
-//	    @null-tokens A|B|…; @sentinels A|B|…; @spellings M M…, @avoid M M…
-//	    (mess names, see AllMesses); @extra-columns N, @missing-columns N;
-//	    @max-digits N, @decimals N, @max-words N; @shuffle, @shuffle-columns,
-//	    @header-mess (no value: on).
-//	  - A name or value holding blanks, # or = is written in double quotes
-//	    as a Go string literal: "air temp", levels="Les Pins|Étang".
+// A line starting with # is a comment (so is the rest of a line after a
+// blank and #); blank lines are skipped.
+//
+// A column line is NAME TYPE [OPTION…]: the name, then a type as a literal
+// table header spells it (bool, int64, float64, string, category, date,
+// timestamp(UNIT[, ZONE]), decimal(P, S)). Columns come out in the order
+// of their lines. A category column may give levels=A|B|C, its values;
+// without it, invented house names.
+//
+// A setting line is @NAME [VALUE…]:
+//
+//	@mess none|light|heavy          how much mess (default light)
+//	@encoding utf-8|utf-8-bom|utf-16le|windows-1252
+//	@delimiter , ; | or tab         the field delimiter (default ,)
+//	@quoting minimal|all|text|mixed which fields are quoted
+//	@line-ending lf|crlf|mixed
+//	@null-rate R                    share of null cells, 0 to 1 (0: none)
+//	@mess-rate R                    share of cells spelled messily
+//	@duplicate-rate R               share of rows repeating an earlier row
+//	@sentinel-rate R                share of cells holding a fault code
+//	@extreme-rate R                 share of numbers such as +Inf, NaN, -0
+//	@dates FROM TO                  range of dates and timestamps (YYYY-MM-DD)
+//	@null-tokens A|B|…              spellings of null
+//	@sentinels A|B|…                fault codes
+//	@spellings M M…                 only these messes (names: AllMesses)
+//	@avoid M M…                     never these messes
+//	@extra-columns N                most columns not in the schema
+//	@missing-columns N              most schema columns left out
+//	@max-digits N, @decimals N, @max-words N
+//	@shuffle, @shuffle-columns, @header-mess   (no value: on)
+//
+// A name or value holding blanks, # or = is written in double quotes as a
+// Go string literal: "air temp", levels="Les Pins|Étang".
 type GenSpec struct {
 	Schema  fixtures.Schema
 	Options Options
