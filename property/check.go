@@ -174,8 +174,8 @@ func seedFor(opts Options) (int64, string, error) {
 // whether every invariant held.
 func Check(t TB, schema fixtures.Schema, fn Func, opts Options, invs ...Invariant) bool {
 	t.Helper()
-	return check(t, schema, opts, invs, func(inv Invariant) (gopter.Prop, string) {
-		return Prop(fn, Tables(schema, opts), inv), "table"
+	return check(t, schema, opts, invs, func(inv Invariant) gopter.Prop {
+		return Prop(fn, Tables(schema, opts), inv)
 	})
 }
 
@@ -185,12 +185,12 @@ func Check(t TB, schema fixtures.Schema, fn Func, opts Options, invs ...Invarian
 // styles; shrinking also makes the style plainer.
 func CheckFiles(t TB, schema fixtures.Schema, fn FileFunc, opts Options, invs []Invariant, styles ...CSVStyle) bool {
 	t.Helper()
-	return check(t, schema, opts, invs, func(inv Invariant) (gopter.Prop, string) {
-		return FileProp(fn, Files(schema, opts, styles...), inv), "file"
+	return check(t, schema, opts, invs, func(inv Invariant) gopter.Prop {
+		return FileProp(fn, Files(schema, opts, styles...), inv)
 	})
 }
 
-func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func(Invariant) (gopter.Prop, string)) bool {
+func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func(Invariant) gopter.Prop) bool {
 	t.Helper()
 	c, err := opts.compile(schema)
 	if err != nil {
@@ -211,8 +211,7 @@ func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func
 		params.MinSuccessfulTests = c.runs
 		params.MinSize = c.minRows
 		params.MaxSize = c.maxRows
-		p, _ := mk(inv)
-		res := p.Check(params)
+		res := mk(inv).Check(params)
 		if res.Passed() {
 			continue
 		}

@@ -198,8 +198,8 @@ type Options struct {
 	// spelled anew.
 	DuplicateRate float64
 	// ExtraColumns is the most columns not in the schema a table gets
-	// (default heavy 1, else 0). MissingColumns is the most schema
-	// columns a table leaves out (default 0).
+	// (default heavy 1, else 0), holding text. MissingColumns is the most
+	// schema columns a table leaves out (default 0); one always stays.
 	ExtraColumns, MissingColumns int
 	// Shuffle puts the raw rows in random order; ShuffleColumns does the
 	// same for the columns. HeaderMess spells header names with case and

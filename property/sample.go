@@ -37,8 +37,9 @@ type Sample struct {
 	recs [][]any // clean values of each record, in schema order
 	root *Sample // the generated sample this one was shrunk or derived from; nil for that one
 
-	rawOnce, plainOnce, cleanOnce sync.Once
-	raw, plain, clean             *fixtures.Table
+	rawOnce, plainOnce, cleanOnce, rankOnce sync.Once
+	raw, plain, clean                       *fixtures.Table
+	rank                                    map[int]int // record → its row in Clean
 }
 
 // rawCol is one column of the raw table.
@@ -67,7 +68,8 @@ func Generate(schema fixtures.Schema, rows int, seed int64, opts Options) (*Samp
 	return generate(schema, rows, seed, c), nil
 }
 
-// Names of extra columns; invented datalogger fields.
+// Names of extra columns, invented datalogger fields; more are extra_6,
+// extra_7, ….
 var extraNames = []string{"logger_id", "battery_v", "comment", "firmware", "uploaded_by"}
 
 func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
@@ -102,9 +104,10 @@ func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
 	if c.extra > 0 {
 		add := sr.intn(c.extra + 1)
 		k := 0
-		for _, name := range extraNames {
-			if len(extraGens) == add {
-				break
+		for n := 0; len(extraGens) < add; n++ {
+			name := fmt.Sprintf("extra_%d", n+1)
+			if n < len(extraNames) {
+				name = extraNames[n]
 			}
 			if schema.Index(name) >= 0 {
 				continue
@@ -229,15 +232,13 @@ func (s *Sample) Cell(i, j int) Messy { return s.rows[i].cells[j] }
 // rows of a duplicate share one. After shrinking, records left without a
 // raw row are not in Clean, and the index counts only those kept.
 func (s *Sample) Record(i int) int {
-	n := 0
-	want := s.rows[i].rec
-	for _, r := range s.keptRecords() {
-		if r == want {
-			return n
+	s.rankOnce.Do(func() {
+		s.rank = make(map[int]int, len(s.recs))
+		for k, r := range s.keptRecords() {
+			s.rank[r] = k
 		}
-		n++
-	}
-	return -1
+	})
+	return s.rank[s.rows[i].rec]
 }
 
 // Duplicates returns the number of raw rows that repeat an earlier row's
