@@ -142,6 +142,29 @@ func elapsed(f func()) time.Duration {
 	return time.Since(start)
 }
 
+// race runs base and other alternately b.N times and reports the mean
+// milliseconds of each and the ratio other/base under the unit ratio.
+func race(b *testing.B, baseName string, base func(), otherName string, other func(), ratio string) {
+	var tb, to time.Duration
+	for b.Loop() {
+		tb += elapsed(base)
+		to += elapsed(other)
+	}
+	b.ReportMetric(float64(tb.Nanoseconds())/float64(b.N)/1e6, "ms-"+baseName)
+	b.ReportMetric(float64(to.Nanoseconds())/float64(b.N)/1e6, "ms-"+otherName)
+	b.ReportMetric(float64(to)/float64(tb), ratio)
+}
+
+// compareFn returns a run of Compare that fails the benchmark unless the
+// outcome is as expected.
+func compareFn(b *testing.B, want, got *fixtures.Table, equal bool, opts ...Option) func() {
+	return func() {
+		if d := Compare(want, got, opts...); d.Equal() != equal {
+			b.Fatalf("Compare: equal = %v, want %v", d.Equal(), equal)
+		}
+	}
+}
+
 // arrowCompare runs Arrow's ApproxEqual over every column pair.
 func arrowCompare(want, got arrow.Record) bool {
 	ok := true
@@ -153,27 +176,14 @@ func arrowCompare(want, got arrow.Record) bool {
 
 func BenchmarkPositionalVsArrow(b *testing.B) {
 	ts := benchTables()
-	want, got := ts[0], ts[1]
-	wr, gr := want.Record(), got.Record()
+	wr, gr := ts[0].Record(), ts[1].Record()
 	defer wr.Release()
 	defer gr.Release()
-	b.ReportAllocs()
-	var ours, peer time.Duration
-	for b.Loop() {
-		ours += elapsed(func() {
-			if !Compare(want, got, benchOpts...).Equal() {
-				b.Fatal("equal tables differ")
-			}
-		})
-		peer += elapsed(func() {
-			if !arrowCompare(wr, gr) {
-				b.Fatal("Arrow: equal tables differ")
-			}
-		})
-	}
-	b.ReportMetric(float64(ours.Nanoseconds())/float64(b.N)/1e6, "ms-ours")
-	b.ReportMetric(float64(peer.Nanoseconds())/float64(b.N)/1e6, "ms-arrow")
-	b.ReportMetric(float64(peer)/float64(ours), "x-vs-arrow")
+	race(b, "ours", compareFn(b, ts[0], ts[1], true, benchOpts...), "arrow", func() {
+		if !arrowCompare(wr, gr) {
+			b.Fatal("Arrow: equal tables differ")
+		}
+	}, "x-vs-arrow")
 }
 
 // quietT swallows testify's failure reports.
@@ -203,82 +213,36 @@ func goSlices(t *fixtures.Table) (floats [][]float64, ints [][]int64, strs [][]s
 
 func BenchmarkPositionalVsTestify(b *testing.B) {
 	ts := benchTables()
-	want, got := ts[0], ts[1]
-	wf, wi, ws := goSlices(want)
-	gf, gi, gs := goSlices(got)
-	var ours, peer time.Duration
-	for b.Loop() {
-		ours += elapsed(func() {
-			if !Compare(want, got, benchOpts...).Equal() {
-				b.Fatal("equal tables differ")
-			}
-		})
-		peer += elapsed(func() {
-			q := &quietT{}
-			for j := range wf {
-				tfassert.InDeltaSlice(q, wf[j], gf[j], 1e-9)
-			}
-			for j := range wi {
-				if !tfassert.ObjectsAreEqual(wi[j], gi[j]) {
-					q.failed = true
-				}
-			}
-			for j := range ws {
-				if !tfassert.ObjectsAreEqual(ws[j], gs[j]) {
-					q.failed = true
-				}
-			}
-			if q.failed {
-				b.Fatal("testify: equal tables differ")
-			}
-		})
-	}
-	b.ReportMetric(float64(ours.Nanoseconds())/float64(b.N)/1e6, "ms-ours")
-	b.ReportMetric(float64(peer.Nanoseconds())/float64(b.N)/1e6, "ms-testify")
-	b.ReportMetric(float64(peer)/float64(ours), "x-vs-testify")
+	wf, wi, ws := goSlices(ts[0])
+	gf, gi, gs := goSlices(ts[1])
+	race(b, "ours", compareFn(b, ts[0], ts[1], true, benchOpts...), "testify", func() {
+		q := &quietT{}
+		for j := range wf {
+			tfassert.InDeltaSlice(q, wf[j], gf[j], 1e-9)
+		}
+		for j := range wi {
+			q.failed = !tfassert.ObjectsAreEqual(wi[j], gi[j]) || q.failed
+		}
+		for j := range ws {
+			q.failed = !tfassert.ObjectsAreEqual(ws[j], gs[j]) || q.failed
+		}
+		if q.failed {
+			b.Fatal("testify: equal tables differ")
+		}
+	}, "x-vs-testify")
 }
 
 func BenchmarkKeyedShuffled(b *testing.B) {
 	ts := benchTables()
-	want, equal, shuffled := ts[0], ts[1], ts[3]
 	keyed := append([]Option{ByKey("id")}, benchOpts...)
-	var pos, key time.Duration
-	for b.Loop() {
-		pos += elapsed(func() {
-			if !Compare(want, equal, benchOpts...).Equal() {
-				b.Fatal("equal tables differ")
-			}
-		})
-		key += elapsed(func() {
-			if d := Compare(want, shuffled, keyed...); !d.Equal() {
-				b.Fatal("shuffled tables differ by key:\n" + d.Text())
-			}
-		})
-	}
-	b.ReportMetric(float64(key.Nanoseconds())/float64(b.N)/1e6, "ms-keyed")
-	b.ReportMetric(float64(pos.Nanoseconds())/float64(b.N)/1e6, "ms-positional")
-	b.ReportMetric(float64(key)/float64(pos), "x-of-positional")
+	race(b, "positional", compareFn(b, ts[0], ts[1], true, benchOpts...),
+		"keyed", compareFn(b, ts[0], ts[3], true, keyed...), "x-of-positional")
 }
 
 func BenchmarkOnePercentDiffering(b *testing.B) {
 	ts := benchTables()
-	want, equal, changed := ts[0], ts[1], ts[2]
-	var eq, diff time.Duration
-	for b.Loop() {
-		eq += elapsed(func() {
-			if !Compare(want, equal, benchOpts...).Equal() {
-				b.Fatal("equal tables differ")
-			}
-		})
-		diff += elapsed(func() {
-			if Compare(want, changed, benchOpts...).Equal() {
-				b.Fatal("changed tables compare equal")
-			}
-		})
-	}
-	b.ReportMetric(float64(diff.Nanoseconds())/float64(b.N)/1e6, "ms-1pct")
-	b.ReportMetric(float64(eq.Nanoseconds())/float64(b.N)/1e6, "ms-equal")
-	b.ReportMetric(float64(diff)/float64(eq), "x-of-equal")
+	race(b, "equal", compareFn(b, ts[0], ts[1], true, benchOpts...),
+		"1pct", compareFn(b, ts[0], ts[2], false, benchOpts...), "x-of-equal")
 }
 
 // allocatedBy returns the heap bytes f allocates.

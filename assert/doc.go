@@ -28,9 +28,16 @@
 //			assert.Tol("*", 1e-9, 0))
 //	}
 //
+// # Matching rows
+//
+// By default row i of want pairs with row i of got, and a longer table's
+// tail is missing or extra. ByKey pairs rows with equal key cells in any
+// order and reports keys that repeat on a side. AnyRowOrder pairs equal
+// rows in any order, as a multiset. Differing cells are counted and listed
+// only for paired rows.
+//
 // # Defaults
 //
-// Rows pair by position; a longer table's tail rows are missing or extra.
 // Cells must be equal exactly: floats too, where −0 equals +0 and NaN
 // equals NaN; null equals null and nothing else (NaN is not null unless
 // NaNIsNull). Columns must agree in name, type and order. Decimal columns
@@ -63,7 +70,9 @@
 //
 // # Speed
 //
-// Columns are compared in parallel over the tables' Arrow buffers without
-// copying them; keyed matching hashes the key columns once. The benchmarks
-// in bench_test.go compare against Arrow's array.ApproxEqual and testify.
+// Cells are compared over the tables' Arrow buffers without copying them,
+// in bulk where the raw bytes agree, with columns (and ranges of rows) on
+// all processors. ByKey hashes the key columns once and joins rows in
+// cache-sized partitions. The benchmarks in bench_test.go measure this
+// against Arrow's array.ApproxEqual and testify in the same run.
 package assert

@@ -306,6 +306,9 @@ func (sc *scratch) reordered(p pairing) bool {
 // compare compares the column's cells over the pairing, using fast loops
 // over the raw values when neither side has nulls.
 func (cc *colCmp) compare(p pairing, r *colResult, sc *scratch) {
+	if p.n == 0 {
+		return
+	}
 	if cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0 {
 		switch cc.class {
 		case classFloat:

@@ -121,16 +121,23 @@ func ByKey(cols ...string) Option {
 
 // AnyRowOrder matches rows as a multiset, with no key: row order does not
 // matter, and a row that occurs twice in want must occur twice in got.
-// Rows that are equal cell for cell are paired first. Then, if some columns
-// have a tolerance (Tol, ULPs, TimeTol), the rows still unpaired are paired
-// when their other cells are exactly equal and their tolerant cells are
-// close; within each group of rows that agree on the exact cells the
-// pairing is a maximum matching (augmenting paths) for groups of up to 64
-// rows a side, and first-fit in row order for larger groups, which can
-// leave a pair unmatched that a different pairing would match. Rows left
-// over are missing or extra. Cells of paired rows are never listed as
-// differing: in this mode a changed row shows as one missing and one extra
-// row. ByKey replaces it.
+//
+// Rows are grouped by their cells in the columns compared exactly; columns
+// with a tolerance (Tol, ULPs, TimeTol) and date-with-timestamp columns are
+// left out of the grouping. Without such columns, rows pair when all their
+// cells are equal, in order of appearance. With them, rows of a group pair
+// when their remaining cells are equal under the rules: a group of at most
+// 64 rows a side gets a maximum matching (augmenting paths, so the most
+// rows pair however the near-equal values interleave); a larger group is
+// sorted by its first tolerant column and each want row, in that order,
+// takes the first unpaired near got row among up to 64 candidates whose
+// value lies within the column's tolerance of its own — fast, but it can
+// miss a pairing that a maximum matching would find when many rows are
+// near several others.
+//
+// Rows left over are missing or extra. Cells of paired rows never count as
+// differing in this mode: a changed row shows as one missing and one extra
+// row. ByKey replaces AnyRowOrder.
 func AnyRowOrder() Option {
 	return Option{func(c *config) {
 		c.mode, c.keys = asMultiset, nil
@@ -168,10 +175,12 @@ func Tol(col string, abs, rel float64) Option {
 // place: n steps of math.Nextafter. The distance is computed from the IEEE
 // 754 bit patterns: each float64 is mapped to an integer that orders like
 // the floats (non-negative floats to their bits, negative floats to the
-// negated bits of their magnitude), so −0 and +0 are 0 apart, the smallest
-// subnormals on either side of zero are 2 apart, and MaxFloat64 is 1 from
-// +Inf. NaN follows the NaN rules. col AllColumns ("*") means every float64
-// column. ULPs replaces an earlier Tol rule for the same column.
+// negated bits of their magnitude), and the distance is the difference of
+// the two integers. So −0 and +0 are 0 apart, the smallest subnormals on
+// either side of zero are 2 apart, and MaxFloat64 is 1 from +Inf — yet, as
+// under Tol, an infinity equals only the same infinity. NaN follows the
+// NaN rules. col AllColumns ("*") means every float64 column. ULPs
+// replaces an earlier Tol rule for the same column.
 func ULPs(col string, n uint) Option {
 	return Option{func(c *config) {
 		c.tols[col] = floatRule{ulps: uint64(n), hasULP: true}

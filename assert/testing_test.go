@@ -7,6 +7,8 @@ import (
 	tfassert "github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 	tfrequire "github.com/stretchr/testify/require"
+
+	"github.com/proofsheet/proofsheet/fixtures"
 )
 
 // recorder is a TestingT that records what the helpers do.
@@ -27,11 +29,15 @@ type errorsOnly struct{ errors int }
 
 func (e *errorsOnly) Errorf(string, ...any) { e.errors++ }
 
-func TestTablesReports(t *testing.T) {
-	want := lit(t, `a:int64
-		1`)
-	got := lit(t, `a:int64
+// oneCellApart returns two one-cell tables that differ.
+func oneCellApart(t *testing.T) (want, got *fixtures.Table) {
+	return lit(t, `a:int64
+		1`), lit(t, `a:int64
 		2`)
+}
+
+func TestTablesReports(t *testing.T) {
+	want, got := oneCellApart(t)
 	r := &recorder{}
 	require.True(t, Tables(r, want, want))
 	require.Empty(t, r.errors)
@@ -49,10 +55,7 @@ func TestTablesReports(t *testing.T) {
 }
 
 func TestMustMatchStops(t *testing.T) {
-	want := lit(t, `a:int64
-		1`)
-	got := lit(t, `a:int64
-		2`)
+	want, got := oneCellApart(t)
 	r := &recorder{}
 	MustMatch(r, want, want)
 	require.False(t, r.stopped)

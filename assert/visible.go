@@ -96,7 +96,7 @@ func textEdit(want, got string, st editStyle) (line string, ok bool) {
 		}
 	}
 	longest := max(utf8.RuneCountInString(want), utf8.RuneCountInString(got))
-	if (common == 0 || common*3 < longest) && !hasInvisible(want) && !hasInvisible(got) {
+	if (common < 2 || common*3 < longest) && !hasInvisible(want) && !hasInvisible(got) {
 		return "", false
 	}
 	var b strings.Builder
