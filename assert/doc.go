@@ -54,7 +54,7 @@
 // infinity equals only the same infinity. ULPs(col, n) instead allows n
 // units in the last place, counted on the IEEE 754 bit patterns mapped to
 // ordered integers, so −0 and +0 are 0 apart and adjacent floats 1 apart.
-// TimeTol does the same for dates and timestamps.
+// TimeTol(col, d) allows |w − g| ≤ d between dates and timestamps.
 //
 // Warning: a tolerance can hide a real difference. Give each column only
 // the slack its computation's rounding needs, and never put money in a
