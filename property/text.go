@@ -326,12 +326,18 @@ func (g *colGen) stringValue(r *rng, v *value) {
 	var buf [64]byte
 	switch {
 	case c.force == MessLong || c.allowed[MessLong] && r.chance(c.messRate*0.02):
-		b := make([]byte, 0, c.longText+32)
-		for len(b) < c.longText {
+		// Words up to 256 bytes, then that run repeated: long is the point,
+		// not variety.
+		b := make([]byte, 0, c.longText+300)
+		for len(b) < min(c.longText, 256) {
 			if len(b) > 0 {
 				b = append(b, ' ')
 			}
 			b = word(b, r)
+		}
+		for run := len(b); len(b) < c.longText; {
+			b = append(b, ' ')
+			b = append(b, b[:run]...)
 		}
 		b = b[:c.longText]
 		if k := len(b) - 1; k >= 0 && b[k] >= 0x80 { // maybe cut inside a letter: drop its start
