@@ -1,6 +1,7 @@
 package assert
 
 import (
+	"bytes"
 	"fmt"
 	"math/rand/v2"
 	"runtime"
@@ -23,6 +24,7 @@ import (
 //	go test ./assert -run '^$' -bench . -benchtime 3x
 //
 // x-vs-arrow   Arrow's array.ApproxEqual time / ours (target ≥ 5)
+// x-vs-memcmp  bytes.Equal over all buffers on one goroutine / ours
 // x-vs-testify testify's InDeltaSlice + ObjectsAreEqual time / ours (≥ 100)
 // x-of-positional keyed compare of shuffled rows / positional (≤ 10)
 // x-of-equal   compare with 1 % of cells differing / equal tables (≤ 2)
@@ -184,6 +186,38 @@ func BenchmarkPositionalVsArrow(b *testing.B) {
 			b.Fatal("Arrow: equal tables differ")
 		}
 	}, "x-vs-arrow")
+}
+
+// BenchmarkPositionalVsMemcmp puts the equal-tables time beside the floor
+// of any exact comparison: bytes.Equal over every Arrow buffer of the two
+// tables on one goroutine (it reads each byte once and decides nothing
+// per cell). A ratio above 1 means Compare beats that floor, by using both
+// cores.
+func BenchmarkPositionalVsMemcmp(b *testing.B) {
+	ts := benchTables()
+	wr, gr := ts[0].Record(), ts[1].Record()
+	defer wr.Release()
+	defer gr.Release()
+	race(b, "ours", compareFn(b, ts[0], ts[1], true, benchOpts...), "memcmp", func() {
+		for j := 0; j < int(wr.NumCols()); j++ {
+			if !buffersEqual(wr.Column(j).Data(), gr.Column(j).Data()) {
+				b.Fatal("memcmp: equal tables differ")
+			}
+		}
+	}, "x-vs-memcmp")
+}
+
+func buffersEqual(a, b arrow.ArrayData) bool {
+	ab, bb := a.Buffers(), b.Buffers()
+	for i := range ab {
+		if ab[i] != nil && bb[i] != nil && !bytes.Equal(ab[i].Bytes(), bb[i].Bytes()) {
+			return false
+		}
+	}
+	if a.DataType().ID() == arrow.DICTIONARY {
+		return buffersEqual(a.Dictionary(), b.Dictionary())
+	}
+	return true
 }
 
 // quietT swallows testify's failure reports.
