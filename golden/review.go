@@ -116,6 +116,9 @@ type Review struct {
 	Files []FileReview
 	// Equal counts files or checks found equal and not listed.
 	Equal int
+	// Noun names what the files are in the headline: "golden file" when
+	// empty ("table" for a comparison of two table files, say).
+	Noun string
 }
 
 // Count returns how many files have the status.
@@ -149,14 +152,18 @@ func (r *Review) Headline() string {
 			parts = append(parts, fmt.Sprintf("%d %s", n, s.Label()))
 		}
 	}
+	noun := r.Noun
+	if noun == "" {
+		noun = "golden file"
+	}
 	var head string
 	switch moved {
 	case 0:
-		head = "no golden file differs"
+		head = "no " + noun + " differs"
 	case 1:
-		head = "1 golden file differs: " + strings.Join(parts, ", ")
+		head = "1 " + noun + " differs: " + strings.Join(parts, ", ")
 	default:
-		head = fmt.Sprintf("%d golden files differ: %s", moved, strings.Join(parts, ", "))
+		head = fmt.Sprintf("%d %ss differ: %s", moved, noun, strings.Join(parts, ", "))
 	}
 	if n := r.Count(ReviewUnchanged); n > 0 {
 		head += fmt.Sprintf("; %d unchanged within tolerance", n)

@@ -1,4 +1,6 @@
 package main
 
 // moreCommands returns the subcommands beyond profile.
-func moreCommands() []*command { return nil }
+func moreCommands() []*command {
+	return []*command{diffCommand(), reviewCommand(), genCommand()}
+}

@@ -5,6 +5,9 @@
 // Usage:
 //
 //	proofsheet profile FILE... [--json]
+//	proofsheet diff [--key COLS] [--tol SPEC]... [--format F] WANT GOT
+//	proofsheet review [--base REV | --records DIR] [--format F] [PATH...]
+//	proofsheet gen --schema FILE [--rows N] [--seed N] [--mess LEVEL] [--out FILE]
 //	proofsheet help [COMMAND]
 //
 // Exit status follows POSIX diff: 0 no difference, 1 differences, 2 trouble

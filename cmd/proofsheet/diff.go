@@ -1,0 +1,154 @@
+package main
+
+import (
+	"strconv"
+
+	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/golden"
+)
+
+func diffCommand() *command {
+	c := &command{
+		name:    "diff",
+		summary: "compare two table files cell by cell, with keys and tolerances",
+		usage: `Usage: proofsheet diff [options] WANT GOT
+
+Loads two table files — CSV/TSV, JSON Lines, JSON array, Arrow IPC or
+Parquet, each by its extension, the two may differ in format — and
+compares GOT with WANT as assert.Compare does: schema, rows, then cells
+under per-column rules. Prints what differs: schema changes, differing
+cells with their distances, missing and extra rows, repeated keys and
+the largest deltas per column.
+
+Options:
+  --key COLS         match rows by these comma-separated key columns
+  --any-row-order    match rows in any order, with no key
+` + tolHelp + `
+  --ignore COLS      leave these comma-separated columns out
+  --loose-types      compare values across types: 3 equals 3.0, a category
+                     equals its text, a date a midnight timestamp
+  --as-text          read every column of both files as text (no inference)
+  --format F         text (default), markdown, json (the Diff's JSON) or
+                     html (one self-contained page)
+  --out FILE         write the report to FILE instead of stdout; FILE is
+                     written only when the comparison could be made
+  --max-cells N      list at most N differing cells, missing and extra
+                     rows (default 20; -1 lists all); counts stay exact
+  --quiet            draw no progress bar
+
+Text goes to a terminal in colour unless NO_COLOR is set. A progress bar
+shows on stderr while large files load, when stderr is a terminal.
+
+Example:
+  proofsheet diff --key house,day --tol 'tmean=abs:1e-9' --tol '*=rel:1e-12' \
+      want/daily.parquet got/daily.csv
+  proofsheet diff --any-row-order --format markdown --out diff.md want.csv got.csv
+
+Exit status: 0 when the tables are equal, 1 when they differ, 2 on
+trouble (a file that cannot be read, a bad option).
+`,
+	}
+	c.run = func(e *env, args []string) int { return runDiff(e, c, args) }
+	return c
+}
+
+// reportFormats are the --format values of diff and review.
+var reportFormats = map[string]bool{"text": true, "markdown": true, "json": true, "html": true}
+
+func runDiff(e *env, c *command, args []string) int {
+	fs := newFlags(c)
+	keys := fs.String("key", "", "")
+	anyOrder := fs.Bool("any-row-order", false, "")
+	var tols tolFlags
+	fs.Var(&tols, "tol", "")
+	ignore := fs.String("ignore", "", "")
+	loose := fs.Bool("loose-types", false, "")
+	asText := fs.Bool("as-text", false, "")
+	format := fs.String("format", "text", "")
+	out := fs.String("out", "", "")
+	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
+	quiet := fs.Bool("quiet", false, "")
+	files, status, ok := parseFlags(e, c, fs, args)
+	if !ok {
+		return status
+	}
+	if len(files) != 2 {
+		return trouble(e, c, "want two files, WANT and GOT, got %d\n\n%s", len(files), c.usage)
+	}
+	if !reportFormats[*format] {
+		return trouble(e, c, "--format %q: unknown format (want text, markdown, json or html)", *format)
+	}
+	opts, err := tolOptions(tols)
+	if err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	if *keys != "" && *anyOrder {
+		return trouble(e, c, "--key and --any-row-order exclude each other: rows are matched by key or in any order")
+	}
+	if isSet(fs, "key") {
+		k := splitList(*keys)
+		if len(k) == 0 {
+			return trouble(e, c, "--key: no column named")
+		}
+		opts = append(opts, assert.ByKey(k...))
+	}
+	if *anyOrder {
+		opts = append(opts, assert.AnyRowOrder())
+	}
+	if cols := splitList(*ignore); len(cols) > 0 {
+		opts = append(opts, assert.IgnoreColumns(cols...))
+	}
+	if *loose {
+		opts = append(opts, assert.LooseTypes())
+	}
+	opts = append(opts, assert.ListLimit(*maxCells))
+	if err := checkOut(*out); err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	var readOpts []fixtures.ReadOption
+	if *asText {
+		readOpts = append(readOpts, fixtures.AllText())
+	}
+
+	bar := newProgress(e, *quiet)
+	want, err := readTable(bar, files[0], readOpts...)
+	if err != nil {
+		bar.finish()
+		return trouble(e, c, "%v", err)
+	}
+	got, err := readTable(bar, files[1], readOpts...)
+	if err != nil {
+		bar.finish()
+		return trouble(e, c, "%v", err)
+	}
+	if want.NumRows()+got.NumRows() >= 100_000 {
+		bar.start("comparing "+strconv.Itoa(want.NumRows())+" and "+strconv.Itoa(got.NumRows())+" rows …", 0)
+	}
+	d := assert.Compare(want, got, opts...)
+	bar.finish()
+
+	var report []byte
+	switch *format {
+	case "json":
+		report, err = d.JSON()
+		if err != nil {
+			return trouble(e, c, "%v", err)
+		}
+		report = append(report, '\n')
+	case "markdown":
+		report = []byte(d.Markdown())
+	case "html":
+		rv := &golden.Review{Title: "Table comparison", Noun: "table", Against: files[0], Files: []golden.FileReview{golden.ReviewDiff(files[1], d)}}
+		report = []byte(rv.HTML())
+	default:
+		report = []byte(d.TextWith(assert.TextStyle{Color: *out == "" && useColor(e, e.stdout)}))
+	}
+	if err := writeResult(e, *out, report); err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	if d.Equal() {
+		return exitSame
+	}
+	return exitDiffers
+}

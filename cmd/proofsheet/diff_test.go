@@ -1,0 +1,208 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+
+	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// writeFiles writes files into a fresh temporary directory and returns it.
+func writeFiles(t *testing.T, files map[string]string) string {
+	t.Helper()
+	dir := t.TempDir()
+	for name, content := range files {
+		p := filepath.Join(dir, filepath.FromSlash(name))
+		require.NoError(t, os.MkdirAll(filepath.Dir(p), 0o755))
+		require.NoError(t, os.WriteFile(p, []byte(content), 0o644))
+	}
+	return dir
+}
+
+const (
+	dailyWant = "house,day,tmax,kept\nÉtang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n"
+	// Rows reordered; Les Pins tmax off by 0.05, Étang kept off by one,
+	// Mas gone and Ruche new.
+	dailyGot = "house,day,tmax,kept\nLes Pins,2026-04-01,18.3,139\nÉtang,2026-04-01,21.5,141\nRuche,2026-04-02,17,120\n"
+)
+
+func TestDiffExitStatusAndFormats(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"want.csv": dailyWant, "got.csv": dailyGot})
+	want, got := filepath.Join(dir, "want.csv"), filepath.Join(dir, "got.csv")
+
+	// Source: POSIX diff(1), EXIT STATUS — 0 no differences, 1 differences,
+	// >1 an error.
+	r := runBin(t, "", nil, "diff", want, want)
+	require.Equal(t, exitSame, r.code, r.stderr)
+	require.Contains(t, r.stdout, "tables are equal (3 rows, 4 columns compared)")
+
+	r = runBin(t, "", nil, "diff", "--key", "house,day", want, got)
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	require.Empty(t, r.stderr)
+	require.Contains(t, r.stdout, "tables differ: 2 differing cells in 2 rows, 1 missing row, 1 extra row")
+	require.Regexp(t, `(?m)^  Les Pins +2026-04-01 +tmax +18\.25 +18\.3 +0\.05`, r.stdout)
+	require.NotContains(t, r.stdout, "\x1b[", "no colour into a pipe")
+
+	// The JSON is the Diff's JSON: the same as assert writes for the same
+	// tables and options.
+	r = runBin(t, "", nil, "diff", "--key", "house,day", "--format", "json", want, got)
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	wt, _, err := fixtures.ReadFile(want)
+	require.NoError(t, err)
+	gt, _, err := fixtures.ReadFile(got)
+	require.NoError(t, err)
+	js, err := assert.Compare(wt, gt, assert.ByKey("house", "day")).JSON()
+	require.NoError(t, err)
+	require.Equal(t, string(js)+"\n", r.stdout)
+
+	r = runBin(t, "", nil, "diff", "--key", "house,day", "--format", "markdown", want, got)
+	require.Equal(t, exitDiffers, r.code)
+	require.True(t, strings.HasPrefix(r.stdout, "**Tables differ: "), r.stdout)
+	require.Contains(t, r.stdout, "| `Étang` | `2026-04-01` | `kept` | `140` | `141` |")
+
+	r = runBin(t, "", nil, "diff", "--key", "house,day", "--format", "html", want, got)
+	require.Equal(t, exitDiffers, r.code)
+	require.True(t, strings.HasPrefix(r.stdout, "<!DOCTYPE html>"))
+	require.Equal(t, 2, strings.Count(r.stdout, `class="`+assert.HTMLChangedCell+`"`))
+	require.Contains(t, r.stdout, "1 table differs")
+}
+
+func TestDiffOptions(t *testing.T) {
+	dir := writeFiles(t, map[string]string{
+		"want.csv":     dailyWant,
+		"got.csv":      dailyGot,
+		"noise.csv":    "house,day,tmax,kept\nÉtang,2026-04-01,21.500000000000004,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n",
+		"shuffled.csv": "house,day,tmax,kept\nMas,2026-04-02,17,120\nÉtang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\n",
+		"extra.csv":    "house,day,tmax,kept,note\nÉtang,2026-04-01,21.5,140,ok\nLes Pins,2026-04-01,18.25,139,ok\nMas,2026-04-02,17,120,ok\n",
+		"floats.csv":   "house,day,tmax,kept\nÉtang,2026-04-01,21.5,140.0\nLes Pins,2026-04-01,18.25,139.0\nMas,2026-04-02,17,120.0\n",
+		"trail.csv":    "id,v\n1,1.50\n2,2.0\n",
+		"short.csv":    "id,v\n1,1.5\n2,2\n",
+	})
+	f := func(name string) string { return filepath.Join(dir, name) }
+	cases := []struct {
+		name string
+		args []string
+		code int
+		has  string
+	}{
+		{"noise fails exactly", []string{f("want.csv"), f("noise.csv")}, exitDiffers, "1 differing cell"},
+		{"noise within a relative tolerance", []string{"--tol", "tmax=rel:1e-12", f("want.csv"), f("noise.csv")}, exitSame, "tables are equal"},
+		{"noise within an absolute tolerance for every float", []string{"--tol", "*=abs:1e-9", f("want.csv"), f("noise.csv")}, exitSame, "tables are equal"},
+		{"noise within ULPs", []string{"--tol", "tmax=ulp:1", f("want.csv"), f("noise.csv")}, exitSame, "tables are equal"},
+		{"tolerance too small", []string{"--tol", "tmax=abs:1e-18", f("want.csv"), f("noise.csv")}, exitDiffers, "abs 1e-18"},
+		{"row order by position", []string{f("want.csv"), f("shuffled.csv")}, exitDiffers, "differing cells"},
+		{"any row order", []string{"--any-row-order", f("want.csv"), f("shuffled.csv")}, exitSame, "rows matched in any order"},
+		{"by key", []string{"--key", "house, day", f("want.csv"), f("shuffled.csv")}, exitSame, "rows matched by key (house, day)"},
+		{"an extra column", []string{f("want.csv"), f("extra.csv")}, exitDiffers, "only in got"},
+		{"an ignored column", []string{"--ignore", "note", f("want.csv"), f("extra.csv")}, exitSame, "tables are equal"},
+		{"a type change", []string{f("want.csv"), f("floats.csv")}, exitDiffers, "type changed"},
+		{"loose types", []string{"--loose-types", f("want.csv"), f("floats.csv")}, exitSame, "tables are equal"},
+		{"inferred numbers", []string{"--loose-types", f("trail.csv"), f("short.csv")}, exitSame, "tables are equal"},
+		{"as text", []string{"--as-text", f("trail.csv"), f("short.csv")}, exitDiffers, "1.50"},
+		{"max cells", []string{"--max-cells", "1", f("want.csv"), f("shuffled.csv")}, exitDiffers, "first 1 shown"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			r := runBin(t, "", nil, append([]string{"diff"}, c.args...)...)
+			require.Equal(t, c.code, r.code, "stdout: %s\nstderr: %s", r.stdout, r.stderr)
+			require.Contains(t, r.stdout, c.has)
+		})
+	}
+}
+
+func TestDiffAcrossFormats(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"want.csv": dailyWant})
+	tb, _, err := fixtures.ReadFile(filepath.Join(dir, "want.csv"))
+	require.NoError(t, err)
+	for _, name := range []string{"same.parquet", "same.arrow", "same.jsonl", "same.json", "same.tsv"} {
+		require.NoError(t, fixtures.WriteFile(filepath.Join(dir, name), tb))
+		args := []string{"diff", filepath.Join(dir, "want.csv"), filepath.Join(dir, name)}
+		if strings.HasPrefix(filepath.Ext(name), ".json") {
+			// JSON has no date type: its dates read back as text.
+			args = append(args, "--as-text")
+		}
+		r := runBin(t, "", nil, args...)
+		require.Equal(t, exitSame, r.code, "%s: %s%s", name, r.stdout, r.stderr)
+	}
+	changed, err := tb.SortBy("kept")
+	require.NoError(t, err)
+	require.NoError(t, fixtures.WriteFile(filepath.Join(dir, "sorted.parquet"), changed))
+	r := runBin(t, "", nil, "diff", "--format", "json", filepath.Join(dir, "want.csv"), filepath.Join(dir, "sorted.parquet"))
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	var js struct {
+		Equal          bool `json:"equal"`
+		CellsDiffering int  `json:"cells_differing"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &js))
+	require.False(t, js.Equal)
+	require.Positive(t, js.CellsDiffering)
+}
+
+func TestDiffOut(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"want.csv": dailyWant, "got.csv": dailyGot, "report.md": "earlier report\n"})
+	out := filepath.Join(dir, "report.md")
+	r := runBin(t, "", nil, "diff", "--format", "markdown", "--out", out, filepath.Join(dir, "want.csv"), filepath.Join(dir, "got.csv"))
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	require.Empty(t, r.stdout, "the report goes to the file")
+	data, err := os.ReadFile(out)
+	require.NoError(t, err)
+	require.True(t, strings.HasPrefix(string(data), "**Tables differ"))
+	entries, err := os.ReadDir(dir)
+	require.NoError(t, err)
+	require.Len(t, entries, 3, "no temporary file left behind")
+}
+
+func TestDiffBadInput(t *testing.T) {
+	dir := writeFiles(t, map[string]string{
+		"want.csv":   dailyWant,
+		"got.csv":    dailyGot,
+		"x.xlsx":     "a,b\n1,2\n",
+		"ragged.csv": "a,b\n1,2\n3\n",
+		"keep.md":    "earlier report\n",
+	})
+	f := func(name string) string { return filepath.Join(dir, name) }
+	keep := f("keep.md")
+	cases := []struct {
+		name string
+		args []string
+		msg  string
+	}{
+		{"one file", []string{f("want.csv")}, "want two files"},
+		{"three files", []string{f("want.csv"), f("got.csv"), f("got.csv")}, "want two files"},
+		{"missing file", []string{f("want.csv"), f("absent.csv")}, "absent.csv: cannot read the file"},
+		{"unknown extension", []string{f("want.csv"), f("x.xlsx")}, `unknown file extension ".xlsx"`},
+		{"bad csv", []string{f("want.csv"), f("ragged.csv")}, "ragged.csv:3"},
+		{"unknown format", []string{"--format", "xml", f("want.csv"), f("got.csv")}, `--format "xml": unknown format`},
+		{"bad tol: no rule", []string{"--tol", "tmax", f("want.csv"), f("got.csv")}, `--tol "tmax": want COLUMN=RULE`},
+		{"bad tol: kind", []string{"--tol", "tmax=near:0.1", f("want.csv"), f("got.csv")}, `unknown rule kind "near"`},
+		{"bad tol: negative", []string{"--tol", "tmax=abs:-1", f("want.csv"), f("got.csv")}, "want a finite number ≥ 0"},
+		{"bad tol: mixed ulp", []string{"--tol", "tmax=ulp:2,abs:1", f("want.csv"), f("got.csv")}, "ulp stands alone"},
+		{"key and any order", []string{"--key", "house", "--any-row-order", f("want.csv"), f("got.csv")}, "exclude each other"},
+		{"empty key", []string{"--key", ",", f("want.csv"), f("got.csv")}, "--key: no column named"},
+		{"bad max-cells", []string{"--max-cells", "many", f("want.csv"), f("got.csv")}, "invalid value"},
+		{"out is a directory", []string{"--out", dir, f("want.csv"), f("got.csv")}, "is a directory"},
+		{"out in no directory", []string{"--out", filepath.Join(dir, "no", "such", "r.md"), f("want.csv"), f("got.csv")}, "no directory"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			args := append([]string{"diff"}, c.args...)
+			if !strings.HasPrefix(c.name, "out ") {
+				args = append([]string{"diff", "--out", keep}, c.args...)
+			}
+			r := runBin(t, "", nil, args...)
+			require.Equal(t, exitTrouble, r.code, "stdout: %s", r.stdout)
+			require.Contains(t, r.stderr, c.msg)
+			require.NotContains(t, r.stderr, "panic")
+			require.Empty(t, r.stdout)
+			data, err := os.ReadFile(keep)
+			require.NoError(t, err)
+			require.Equal(t, "earlier report\n", string(data), "--out is untouched on failure")
+		})
+	}
+}

@@ -1,0 +1,202 @@
+package main
+
+import (
+	"fmt"
+	"os"
+
+	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/golden"
+)
+
+// stepSummaryVar is the environment variable by which CI services name a
+// file that collects Markdown for the job's summary page, a common CI
+// convention; review appends its Markdown there when it is set.
+const stepSummaryVar = "GITHUB_STEP_SUMMARY"
+
+func reviewCommand() *command {
+	c := &command{
+		name:    "review",
+		summary: "summarise the golden files changed since a git revision, for a pull request",
+		usage: `Usage: proofsheet review [options] [PATH...]
+
+Finds the golden files (*.gold.tbl, *.gold.txt, *.gold.json) that differ
+between a git revision and the working tree — new untracked files too —
+under the PATHs (default: every testdata/ directory below the current
+one), compares the old and new version of each by its kind, and writes one
+summary: a headline count, then per file its status (new, removed,
+changed, unchanged within tolerance), row counts, schema and key changes,
+the first changed cells with their keys and the largest deltas per column.
+Tables are compared as golden.Table compares them (rows matched by the
+file's key columns); text files line by line; JSON files by path.
+
+With --records DIR it summarises the run records a test run wrote
+(PROOFSHEET_RECORDS=DIR go test ./...) instead of asking git.
+
+Options:
+  --base REV         the git revision to compare with (default HEAD)
+  --records DIR      read run records from DIR instead of git
+  --format F         markdown (default; fits a pull-request comment), text,
+                     json, or html (one self-contained page with a
+                     "changed only" filter)
+  --out FILE         write the summary to FILE instead of stdout; FILE is
+                     written only when the review could be made
+` + tolHelp + `
+  --ignore COLS      leave these comma-separated table columns out
+  --max-cells N      list at most N changed cells per table (default 10;
+                     -1 lists all)
+  --quiet            draw no progress bar
+
+When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown summary is
+appended to it as well, whatever --format says.
+
+Example:
+  proofsheet review --base origin/main --format html --out review.html
+  PROOFSHEET_RECORDS=out/records go test ./... ; proofsheet review --records out/records
+
+Exit status: 0 when no golden file changed (unchanged within tolerance
+counts as no change), 1 when some file is new, removed or changed, 2 on
+trouble (not a git repository, an unknown revision, a bad option).
+`,
+	}
+	c.run = func(e *env, args []string) int { return runReview(e, c, args) }
+	return c
+}
+
+func runReview(e *env, c *command, args []string) int {
+	fs := newFlags(c)
+	base := fs.String("base", "HEAD", "")
+	recordsDir := fs.String("records", "", "")
+	format := fs.String("format", "markdown", "")
+	out := fs.String("out", "", "")
+	var tols tolFlags
+	fs.Var(&tols, "tol", "")
+	ignore := fs.String("ignore", "", "")
+	maxCells := fs.Int("max-cells", 10, "")
+	quiet := fs.Bool("quiet", false, "")
+	paths, status, ok := parseFlags(e, c, fs, args)
+	if !ok {
+		return status
+	}
+	if !reportFormats[*format] {
+		return trouble(e, c, "--format %q: unknown format (want markdown, text, json or html)", *format)
+	}
+	opts, err := tolOptions(tols)
+	if err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	if cols := splitList(*ignore); len(cols) > 0 {
+		opts = append(opts, assert.IgnoreColumns(cols...))
+	}
+	opts = append(opts, assert.ListLimit(*maxCells))
+	if err := checkOut(*out); err != nil {
+		return trouble(e, c, "%v", err)
+	}
+
+	var rv *golden.Review
+	if *recordsDir != "" {
+		if isSet(fs, "base") || len(paths) > 0 {
+			return trouble(e, c, "--records reads a test run's records; it takes no --base and no PATH")
+		}
+		if fi, err := os.Stat(*recordsDir); err != nil || !fi.IsDir() {
+			return trouble(e, c, "--records %s: no such directory", *recordsDir)
+		}
+		recs, err := golden.ReadRecords(*recordsDir)
+		if err != nil {
+			return trouble(e, c, "%v", err)
+		}
+		rv = golden.ReviewRecords(recs)
+		rv.Against = "the run records in " + *recordsDir
+	} else {
+		rv, err = reviewGit(e, *base, paths, opts, newProgress(e, *quiet))
+		if err != nil {
+			return trouble(e, c, "%v", err)
+		}
+	}
+
+	var report []byte
+	switch *format {
+	case "json":
+		if report, err = rv.JSON(); err != nil {
+			return trouble(e, c, "%v", err)
+		}
+	case "html":
+		report = []byte(rv.HTML())
+	case "text":
+		report = []byte(rv.TextWith(assert.TextStyle{Color: *out == "" && useColor(e, e.stdout)}))
+	default:
+		report = []byte(rv.Markdown())
+	}
+	if err := writeResult(e, *out, report); err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	if path := e.getenv(stepSummaryVar); path != "" {
+		if err := appendFile(path, []byte(rv.Markdown()+"\n")); err != nil {
+			return trouble(e, c, "%s=%s: %v", stepSummaryVar, path, err)
+		}
+	}
+	if rv.Changed() {
+		return exitDiffers
+	}
+	return exitSame
+}
+
+// reviewGit reviews the golden files that differ between base and the
+// work tree around the working directory.
+func reviewGit(e *env, base string, paths []string, opts []assert.Option, bar *progress) (*golden.Review, error) {
+	wd, err := os.Getwd()
+	if err != nil {
+		return nil, err
+	}
+	repo, err := openRepo(wd)
+	if err != nil {
+		return nil, err
+	}
+	commit, err := repo.resolve(base)
+	if err != nil {
+		return nil, err
+	}
+	specs := paths
+	if len(specs) == 0 {
+		specs = []string{defaultPathspec}
+	}
+	changes, err := repo.changed(commit, specs)
+	if err != nil {
+		return nil, err
+	}
+	rv := &golden.Review{Against: base + " (" + repo.shortCommit(commit) + ")"}
+	if len(changes) >= 20 {
+		bar.startCount("reviewing golden files", int64(len(changes)))
+	}
+	for _, ch := range changes {
+		fc := golden.FileChange{Path: ch.path, OldExists: ch.old, NewExists: ch.cur}
+		if ch.old {
+			if fc.Old, err = repo.show(commit, ch.path); err != nil {
+				bar.finish()
+				return nil, err
+			}
+		}
+		if ch.cur {
+			if fc.New, err = repo.read(ch.path); err != nil {
+				bar.finish()
+				return nil, fmt.Errorf("reading %s: %w", ch.path, err)
+			}
+		}
+		rv.Files = append(rv.Files, golden.ReviewChange(fc, opts...))
+		bar.add(1)
+	}
+	bar.finish()
+	return rv, nil
+}
+
+// appendFile appends data to the file at path, creating it if need be.
+func appendFile(path string, data []byte) error {
+	f, err := os.OpenFile(path, os.O_WRONLY|os.O_APPEND|os.O_CREATE, 0o644)
+	if err != nil {
+		return err
+	}
+	if _, err := f.Write(data); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
+}
