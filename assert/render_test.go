@@ -184,3 +184,18 @@ func TestUseColor(t *testing.T) {
 	// output carries no ANSI colour.
 	require.False(t, UseColor(os.Stdout))
 }
+
+func TestTextOfWideTables(t *testing.T) {
+	var head, row []string
+	for i := range 40 {
+		head = append(head, "column_"+itoa(i)+":int64")
+		row = append(row, itoa(i*1000))
+	}
+	want := lit(t, strings.Join(head, " | ")+"\n"+strings.Join(row, " | "))
+	empty := lit(t, strings.Join(head, " | "))
+	text := Compare(want, empty).Text()
+	for _, line := range strings.Split(text, "\n") {
+		require.LessOrEqual(t, textwidth.Width(line), 100, line)
+	}
+	require.Regexp(t, `…\+\d+`, text, "left-out columns are counted")
+}

@@ -367,7 +367,37 @@ func (w *textWriter) tableWith(rows [][]string, right map[int]bool, paint map[in
 			widths[j] = max(widths[j], textwidth.Width(s))
 		}
 	}
-	fitWidths(widths, w.st.Width-2)
+	natural := append([]int(nil), widths...)
+	if !fitWidths(widths, w.st.Width-2) {
+		// Too many columns even when narrowed: keep those that fit at
+		// their own width (at most 24) and end each row with a column
+		// saying how many are left out.
+		for j := range widths {
+			widths[j] = min(natural[j], 24)
+		}
+		keep, used := 0, 0
+		for keep < ncol && used+widths[keep]+2+len("…+999") <= w.st.Width-2 {
+			used += widths[keep] + 2
+			keep++
+		}
+		keep = max(keep, 1)
+		more := fmt.Sprintf("…+%d", ncol-keep)
+		cut := make([][]string, len(rows))
+		for i, r := range rows {
+			c := append([]string(nil), r[:min(keep, len(r))]...)
+			for len(c) < keep {
+				c = append(c, "")
+			}
+			if i == 0 {
+				c = append(c, more)
+			} else {
+				c = append(c, "…")
+			}
+			cut[i] = c
+		}
+		rows, ncol = cut, keep+1
+		widths = append(widths[:keep], textwidth.Width(more))
+	}
 	for i, r := range rows {
 		var b strings.Builder
 		b.WriteString("  ")
@@ -407,8 +437,9 @@ func (w *textWriter) tableWith(rows [][]string, right map[int]bool, paint map[in
 }
 
 // fitWidths narrows the widest columns until the columns, two spaces
-// apart, fit in total; no column goes below 6 unless it already was.
-func fitWidths(widths []int, total int) {
+// apart, fit in total; no column goes below 6 unless it already was. It
+// reports whether they fit.
+func fitWidths(widths []int, total int) bool {
 	sum := func() int {
 		n := 0
 		for _, x := range widths {
@@ -424,10 +455,11 @@ func fitWidths(widths []int, total int) {
 			}
 		}
 		if widths[wi] <= 6 {
-			return
+			return false
 		}
 		widths[wi]--
 	}
+	return true
 }
 
 // UseColor reports whether text written to f should be coloured: f is a
