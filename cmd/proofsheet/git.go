@@ -94,6 +94,21 @@ func (r *gitRepo) resolve(rev string) (string, error) {
 	return strings.TrimSpace(string(out)), nil
 }
 
+// inTestdata reports whether the working directory lies in a testdata
+// directory of the work tree.
+func (r *gitRepo) inTestdata() bool {
+	out, err := git(r.dir, "rev-parse", "--show-prefix")
+	if err != nil {
+		return false
+	}
+	for _, el := range strings.Split(strings.TrimSpace(string(out)), "/") {
+		if el == "testdata" {
+			return true
+		}
+	}
+	return false
+}
+
 // shortCommit returns the abbreviated name of a commit.
 func (r *gitRepo) shortCommit(commit string) string {
 	out, err := git(r.dir, "rev-parse", "--short", commit)
@@ -173,5 +188,5 @@ func isGoldenFile(path string) bool {
 }
 
 // defaultPathspec selects every testdata/ directory below the working
-// directory.
+// directory (all of it when it lies in one; see inTestdata).
 const defaultPathspec = ":(glob)**/testdata/**"

@@ -158,6 +158,9 @@ func reviewGit(e *env, base string, paths []string, opts []assert.Option, bar *p
 	specs := paths
 	if len(specs) == 0 {
 		specs = []string{defaultPathspec}
+		if repo.inTestdata() {
+			specs = []string{"."}
+		}
 	}
 	changes, err := repo.changed(commit, specs)
 	if err != nil {
