@@ -316,7 +316,9 @@ type partitionJoin struct {
 func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) {
 	wa, wb := w.start[p], w.start[p+1]
 	ga, gb := g.start[p], g.start[p+1]
-	size := 1 << bits.Len(uint(max(2*(wb-wa+gb-ga), 8)-1))
+	// Room for every entry plus at least one empty slot, so probing ends;
+	// with got's rows mostly matching want's the table is about half full.
+	size := 1 << bits.Len(uint(max(wb-wa+gb-ga+1, 8)))
 	if cap(pj.slots) < size {
 		pj.slots = make([]int32, size)
 	}
