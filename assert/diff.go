@@ -216,7 +216,7 @@ func (d *Diff) Equal() bool {
 		d.Duplicates.WantKeys == 0 && d.Duplicates.GotKeys == 0 && d.CellsDiffering == 0
 }
 
-// listCap reports whether a listing already holding n entries is full.
+// listFull reports whether a listing already holding n entries is full.
 func (d *Diff) listFull(n int) bool {
 	return d.Limit >= 0 && n >= d.Limit
 }

@@ -475,20 +475,18 @@ func (c *comparison) addDuplicate(side Side, rows []int32) {
 	} else {
 		d.GotKeys++
 	}
-	if d.listFull(len(d.Keys), c.d.Limit) {
+	if c.d.listFull(len(d.Keys)) {
 		return
 	}
 	dk := DuplicateKey{Side: side, Key: c.keyText(side, int(rows[0])), Count: len(rows)}
 	for _, r := range rows {
-		if c.d.Limit >= 0 && len(dk.Rows) >= c.d.Limit {
+		if c.d.listFull(len(dk.Rows)) {
 			break
 		}
 		dk.Rows = append(dk.Rows, int(r))
 	}
 	d.Keys = append(d.Keys, dk)
 }
-
-func (d *DuplicateList) listFull(n, limit int) bool { return limit >= 0 && n >= limit }
 
 // multisetGroupLimit is the largest group (rows a side) that AnyRowOrder
 // pairs by maximum matching; larger groups are paired first-fit.
