@@ -753,3 +753,34 @@ func TestKeyedLargeAgreesWithSortedPositional(t *testing.T) {
 	require.Equal(t, d.CellsDiffering, rest.CellsDiffering)
 	require.Less(t, d.CellsDiffering, keyed.CellsDiffering)
 }
+
+func TestNullKeysMatchEachOther(t *testing.T) {
+	want := lit(t, `house:string | n:int64
+		~ | 1
+		Mas | 2`)
+	got := lit(t, `house:string | n:int64
+		Mas | 2
+		~ | 1`)
+	d := Compare(want, got, ByKey("house"))
+	require.True(t, d.Equal(), d.Text())
+	twice := lit(t, `house:string | n:int64
+		~ | 1
+		~ | 2`)
+	d = Compare(twice, twice, ByKey("house"))
+	require.Equal(t, 1, d.Duplicates.WantKeys)
+	require.Equal(t, []string{"~"}, d.Duplicates.Keys[0].Key)
+}
+
+func TestULPDeltaIsReported(t *testing.T) {
+	want := lit(t, `v:float64
+		1`)
+	got := lit(t, `v:float64
+		1.0000000000000007`) // 3 ULPs above 1 (ULP of 1 is 2^-52 ≈ 2.22e-16)
+	d := Compare(want, got, ULPs("v", 2))
+	require.Equal(t, 1, d.CellsDiffering)
+	require.True(t, d.Cells[0].Delta.HasULPs)
+	require.Equal(t, uint64(3), d.Cells[0].Delta.ULPs)
+	require.Equal(t, "2 ULPs", d.Columns[0].Rule)
+	require.Contains(t, d.Text(), "(3 ulp)")
+	require.True(t, Compare(want, got, ULPs("v", 3)).Equal())
+}
