@@ -159,35 +159,52 @@ func (s *GenSpec) setting(toks []specToken, fail func(specToken, string, ...any)
 		}
 		return args[0], nil
 	}
-	rateOf := func(dst *float64) error {
+	// value parses the one value of a setting; an error points at it.
+	value := func(parse func(string) error) error {
 		v, err := one()
 		if err != nil {
 			return err
 		}
-		r, perr := strconv.ParseFloat(v.value, 64)
-		if perr != nil || r < 0 || r > 1 {
-			return fail(v, "@%s: want a share from 0 to 1, got %q", key, v.value)
+		if perr := parse(v.value); perr != nil {
+			return fail(v, "%v", perr)
 		}
-		if r == 0 {
-			r = -1 // zero means the default in Options; written here it means none
-		}
-		*dst = r
 		return nil
 	}
+	rateOf := func(dst *float64) error {
+		return value(func(s string) error {
+			r, err := strconv.ParseFloat(s, 64)
+			if err != nil || r < 0 || r > 1 {
+				return fmt.Errorf("@%s: want a share from 0 to 1, got %q", key, s)
+			}
+			if r == 0 {
+				r = -1 // zero means the default in Options; written here it means none
+			}
+			*dst = r
+			return nil
+		})
+	}
 	countOf := func(dst *int, most int) error {
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		c, perr := strconv.Atoi(v.value)
-		if perr != nil || c < 0 || c > most {
-			return fail(v, "@%s: want a whole number from 0 to %d, got %q", key, most, v.value)
-		}
-		if c == 0 {
-			c = -1
-		}
-		*dst = c
-		return nil
+		return value(func(s string) error {
+			c, err := strconv.Atoi(s)
+			if err != nil || c < 0 || c > most {
+				return fmt.Errorf("@%s: want a whole number from 0 to %d, got %q", key, most, s)
+			}
+			if c == 0 {
+				c = -1
+			}
+			*dst = c
+			return nil
+		})
+	}
+	choice := func(names []string, what string, dst func(int)) error {
+		return value(func(s string) error {
+			i := indexOf(names, strings.ToLower(s))
+			if i < 0 {
+				return fmt.Errorf("@%s: unknown %s %q (want %s)", key, what, s, strings.Join(names, ", "))
+			}
+			dst(i)
+			return nil
+		})
 	}
 	flag := func(dst *bool) error {
 		if len(args) != 0 {
@@ -199,55 +216,15 @@ func (s *GenSpec) setting(toks []specToken, fail func(specToken, string, ...any)
 	o, st := &s.Options, &s.Style
 	switch key {
 	case "mess":
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		m, perr := ParseMessLevel(v.value)
-		if perr != nil {
-			return fail(v, "%v", perr)
-		}
-		o.Mess = m
+		return value(func(v string) (err error) { o.Mess, err = ParseMessLevel(v); return err })
 	case "encoding":
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		e, perr := ParseEncoding(v.value)
-		if perr != nil {
-			return fail(v, "%v", perr)
-		}
-		st.Encoding = e
+		return value(func(v string) (err error) { st.Encoding, err = ParseEncoding(v); return err })
 	case "delimiter":
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		d, perr := ParseDelimiter(v.value)
-		if perr != nil {
-			return fail(v, "%v", perr)
-		}
-		st.Delimiter = d
+		return value(func(v string) (err error) { st.Delimiter, err = ParseDelimiter(v); return err })
 	case "quoting":
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		i := indexOf(quotingNames[:], strings.ToLower(v.value))
-		if i < 0 {
-			return fail(v, "@quoting: unknown style %q (want minimal, all, text or mixed)", v.value)
-		}
-		st.Quoting = Quoting(i)
+		return choice(quotingNames[:], "style", func(i int) { st.Quoting = Quoting(i) })
 	case "line-ending":
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		i := indexOf([]string{"lf", "crlf", "mixed"}, strings.ToLower(v.value))
-		if i < 0 {
-			return fail(v, "@line-ending: unknown ending %q (want lf, crlf or mixed)", v.value)
-		}
-		st.LineEnding = LineEnding(i)
+		return choice([]string{"lf", "crlf", "mixed"}, "ending", func(i int) { st.LineEnding = LineEnding(i) })
 	case "null-rate":
 		return rateOf(&o.NullRate)
 	case "mess-rate":
@@ -274,17 +251,10 @@ func (s *GenSpec) setting(toks []specToken, fail func(specToken, string, ...any)
 			return fail(args[1], "@dates: %s is before %s", args[1].value, args[0].value)
 		}
 		o.DateFrom, o.DateTo = ts[0], ts[1].Add(24*time.Hour-time.Second)
-	case "null-tokens", "sentinels":
-		v, err := one()
-		if err != nil {
-			return err
-		}
-		list := splitBar(v.value)
-		if key == "sentinels" {
-			o.Sentinels = list
-		} else {
-			o.NullTokens = append([]string{}, list...)
-		}
+	case "null-tokens":
+		return value(func(v string) error { o.NullTokens = append([]string{}, splitBar(v)...); return nil })
+	case "sentinels":
+		return value(func(v string) error { o.Sentinels = splitBar(v); return nil })
 	case "spellings", "avoid":
 		if len(args) == 0 {
 			return fail(toks[0], "@%s takes one or more mess names", key)
