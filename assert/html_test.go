@@ -3,12 +3,15 @@ package assert
 import (
 	"encoding/xml"
 	"errors"
+	"fmt"
 	"io"
 	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/require"
+
+	"github.com/proofsheet/proofsheet/fixtures"
 )
 
 // htmlNode is an element of a parsed fragment: its name, class and text.
@@ -167,4 +170,19 @@ func TestHTMLListingCap(t *testing.T) {
 	nodes := parseFragment(t, d.HTML())
 	require.Len(t, byClass(nodes, HTMLChangedCell), 7)
 	require.Contains(t, d.HTML(), "Differing cells (30, first 7 shown)")
+}
+
+func ExampleDiff_HTML() {
+	want, _ := fixtures.Parse(`house:string | tmax:float64
+		Étang | 21.5`)
+	got, _ := fixtures.Parse(`house:string | tmax:float64
+		Étang | 22`)
+	d := Compare(want, got, ByKey("house"))
+	page := d.HTML()
+	fmt.Println(strings.Count(page, `class="`+HTMLChangedCell+`"`), "marked cell")
+	start := strings.Index(page, `<td class="ps-changed"`)
+	fmt.Println(page[start : strings.Index(page[start:], "</td>")+start+5])
+	// Output:
+	// 1 marked cell
+	// <td class="ps-changed" data-column="tmax"><del>21.5</del><ins>22</ins><small class="ps-note">Δ 0.5, rel 0.0227</small></td>
 }

@@ -2,6 +2,7 @@ package golden
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -283,4 +284,19 @@ func TestReviewDiff(t *testing.T) {
 	require.Equal(t, ReviewChanged, f.Status)
 	require.Equal(t, "1", f.Rows())
 	require.Equal(t, ReviewUnchanged, ReviewDiff("x", assert.Compare(a, a)).Status)
+}
+
+func ExampleReviewChange() {
+	old := []byte("# proofsheet sheet v1\n# keys: house\n# rows: 2\nhouse:string | tmax:float64\nLes Pins | 18.25\nÉtang | 21.5\n")
+	cur := []byte("# proofsheet sheet v1\n# keys: house\n# rows: 2\nhouse:string | tmax:float64\nLes Pins | 18.25\nÉtang | 22\n")
+	f := ReviewChange(FileChange{Path: "daily/report.gold.tbl", Old: old, New: cur, OldExists: true, NewExists: true})
+	rv := &Review{Against: "HEAD", Files: []FileReview{f}}
+	fmt.Println(rv.Headline())
+	fmt.Println(f.Status, "|", f.Summary())
+	c := f.Diff.Cells[0]
+	fmt.Println(c.Row.Key, c.Column, c.Want.Text, "→", c.Got.Text)
+	// Output:
+	// 1 golden file differs: 1 changed
+	// changed | 1 differing cell in 1 row; largest Δabs 0.5 (tmax)
+	// [Étang] tmax 21.5 → 22
 }

@@ -3,6 +3,7 @@ package property
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"testing"
 	"time"
 
@@ -157,4 +158,30 @@ func TestGenSpecEncodings(t *testing.T) {
 	require.NoError(t, err)
 	// Source: WHATWG Encoding Standard, index-windows-1252 — É is byte C9.
 	require.Contains(t, string(data), "\xc9tang")
+}
+
+func ExampleParseGenSpec() {
+	spec, err := ParseGenSpec("houses.schema", []byte(`
+@mess none
+@null-rate 0
+house  category  levels="Étang|Les Pins"
+kept   int64
+`))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	data, err := spec.CSV(3, 42)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(spec.Schema)
+	fmt.Print(string(data))
+	// Output:
+	// house:category, kept:int64
+	// house,kept
+	// Les Pins,0
+	// Étang,-6
+	// Les Pins,-797
 }
