@@ -397,6 +397,15 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 			if f.PathCount > len(f.Paths) {
 				body += fmt.Sprintf("\n… %d more", f.PathCount-len(f.Paths))
 			}
+		case len(f.Preview) > 0:
+			var rows []string
+			if len(f.Columns) > 0 {
+				rows = append(rows, strings.Join(f.Columns, " | "))
+			}
+			for _, row := range f.Preview {
+				rows = append(rows, strings.Join(row, " | "))
+			}
+			body = strings.Join(rows, "\n")
 		case f.Detail != "":
 			body = f.Detail
 		}
@@ -414,8 +423,15 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 	return b.String()
 }
 
+// indent indents every line that is not empty by two spaces.
 func indent(s string) string {
-	return "  " + strings.ReplaceAll(s, "\n", "\n  ")
+	lines := strings.Split(s, "\n")
+	for i, l := range lines {
+		if l != "" {
+			lines[i] = "  " + l
+		}
+	}
+	return strings.Join(lines, "\n")
 }
 
 // JSON writes the review as an indented JSON object for tools: title,
