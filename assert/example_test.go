@@ -117,6 +117,18 @@ func ExampleDiff_JSON() {
 	//   "equal": false,
 	//   "match": "position",
 	//   "keys": [],
+	//   "want_columns": [
+	//     "house",
+	//     "tmin"
+	//   ],
+	//   "got_columns": [
+	//     "house",
+	//     "tmin"
+	//   ],
+	//   "compared": [
+	//     "house",
+	//     "tmin"
+	//   ],
 	//   "want_rows": 1,
 	//   "got_rows": 1,
 	//   "missing_rows": 0,

@@ -2,8 +2,10 @@ package assert
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -11,11 +13,11 @@ import (
 // JSON writes the Diff as an indented JSON object, for tools. The fields
 // equal, want_rows, got_rows, missing_rows, extra_rows, cells_differing,
 // columns[] {name, differing, max_abs_delta, max_rel_delta} and schema[]
-// {column, change, want, got} are fixed; the others (match, keys,
-// rows_differing, problems, duplicate keys, the listed cells and rows)
-// complete the picture. Lists are never null, and a delta that is not a
-// finite number (an infinity) is written as null. The output is the same
-// for the same Diff.
+// {column, change, want, got} are fixed; the others (match, keys, the
+// column lists, rows_differing, problems, duplicate keys, the listed cells
+// and rows) complete the picture. Lists are never null, and a delta that
+// is not a finite number (an infinity) is written as null. The output is
+// the same for the same Diff, and DiffFromJSON reads it back.
 func (d *Diff) JSON() ([]byte, error) {
 	if d == nil {
 		d = &Diff{}
@@ -24,6 +26,9 @@ func (d *Diff) JSON() ([]byte, error) {
 		Equal:          d.Equal(),
 		Match:          string(d.Match),
 		Keys:           orEmpty(d.Keys),
+		WantColumns:    orEmpty(d.WantColumns),
+		GotColumns:     orEmpty(d.GotColumns),
+		Compared:       orEmpty(d.Compared),
 		WantRows:       d.WantRows,
 		GotRows:        d.GotRows,
 		MissingRows:    d.Missing.Count,
@@ -88,6 +93,9 @@ type jsonDiff struct {
 	Equal          bool          `json:"equal"`
 	Match          string        `json:"match"`
 	Keys           []string      `json:"keys"`
+	WantColumns    []string      `json:"want_columns"`
+	GotColumns     []string      `json:"got_columns"`
+	Compared       []string      `json:"compared"`
 	WantRows       int           `json:"want_rows"`
 	GotRows        int           `json:"got_rows"`
 	MissingRows    int           `json:"missing_rows"`
@@ -171,6 +179,22 @@ func (n jsonNum) MarshalJSON() ([]byte, error) {
 	return []byte(strconv.FormatFloat(f, 'g', -1, 64)), nil
 }
 
+// UnmarshalJSON reads a number, or null as NaN.
+func (n *jsonNum) UnmarshalJSON(b []byte) error {
+	if string(b) == "null" {
+		*n = jsonNum(math.NaN())
+		return nil
+	}
+	f, err := strconv.ParseFloat(string(b), 64)
+	if err != nil {
+		return fmt.Errorf("assert: bad number %s in diff JSON: %w", b, err)
+	}
+	*n = jsonNum(f)
+	return nil
+}
+
+func (n jsonNum) isNull() bool { return math.IsNaN(float64(n)) }
+
 func jsonNumOrNull() jsonNum { return jsonNum(math.NaN()) }
 
 func jsonRowOf(r RowRef) *jsonRow {
@@ -205,4 +229,150 @@ func orEmpty[T any](s []T) []T {
 		return []T{}
 	}
 	return s
+}
+
+// DiffFromJSON reads a Diff back from what JSON wrote, for tools that keep
+// diffs (run records, review pages) and render them later: every field
+// JSON writes is restored, so JSON of the result gives the same bytes. Cell
+// values (Cell.Value) are restored from their text for bool, int64,
+// float64 and text cells; date, timestamp and decimal cells keep only
+// their text. A delta written as null (an infinity) comes back as +Inf
+// where the column names a row for it.
+func DiffFromJSON(b []byte) (*Diff, error) {
+	var j jsonDiff
+	if err := json.Unmarshal(b, &j); err != nil {
+		return nil, fmt.Errorf("assert: reading diff JSON: %w", err)
+	}
+	d := &Diff{
+		WantRows: j.WantRows, GotRows: j.GotRows, Match: MatchMode(j.Match), Keys: j.Keys,
+		WantColumns: j.WantColumns, GotColumns: j.GotColumns, Compared: j.Compared, Problems: j.Problems,
+		Missing:        RowList{Count: j.MissingRows, Rows: rowsFromJSON(j.Missing)},
+		Extra:          RowList{Count: j.ExtraRows, Rows: rowsFromJSON(j.Extra)},
+		Duplicates:     DuplicateList{WantKeys: j.DuplicateKeys.Want, GotKeys: j.DuplicateKeys.Got},
+		CellsDiffering: j.CellsDiffering, RowsDiffering: j.RowsDiffering, Limit: j.Limit,
+	}
+	if d.Match == "" {
+		d.Match = MatchByPosition
+	}
+	for _, s := range j.Schema {
+		d.Schema = append(d.Schema, SchemaChange{Column: s.Column, Change: ChangeKind(s.Change), Want: s.Want, Got: s.Got})
+	}
+	for _, c := range j.Columns {
+		cs := ColumnSummary{Name: c.Name, Rule: c.Rule, Differing: c.Differing,
+			MaxAbsAt: rowFromJSON(c.MaxAbsAt), MaxRelAt: rowFromJSON(c.MaxRelAt)}
+		var err error
+		if cs.WantType, err = fixtures.ParseType(c.WantType); err != nil {
+			return nil, fmt.Errorf("assert: column %q in diff JSON: %w", c.Name, err)
+		}
+		if cs.GotType, err = fixtures.ParseType(c.GotType); err != nil {
+			return nil, fmt.Errorf("assert: column %q in diff JSON: %w", c.Name, err)
+		}
+		switch {
+		case !c.MaxAbs.isNull():
+			cs.HasDelta, cs.MaxAbs = true, float64(c.MaxAbs)
+		case c.MaxAbsAt != nil:
+			cs.HasDelta, cs.MaxAbs = true, math.Inf(1)
+		}
+		switch {
+		case !c.MaxRel.isNull():
+			cs.MaxRel = float64(c.MaxRel)
+		case c.MaxRelAt != nil:
+			cs.MaxRel = math.Inf(1)
+		}
+		d.Columns = append(d.Columns, cs)
+	}
+	for _, c := range j.Cells {
+		cd := CellDiff{Row: rowFromJSON(&c.Row), Column: c.Column}
+		var err error
+		if cd.Want, err = cellFromJSON(c.Want); err != nil {
+			return nil, err
+		}
+		if cd.Got, err = cellFromJSON(c.Got); err != nil {
+			return nil, err
+		}
+		switch {
+		case !c.Abs.isNull():
+			cd.Delta.Has, cd.Delta.Abs = true, float64(c.Abs)
+			if !c.Rel.isNull() {
+				cd.Delta.Rel = float64(c.Rel)
+			}
+		case infiniteDelta(cd.Want, cd.Got):
+			cd.Delta = Delta{Has: true, Abs: math.Inf(1), Rel: math.Inf(1)}
+		}
+		if c.ULPs != nil {
+			cd.Delta.ULPs, cd.Delta.HasULPs = *c.ULPs, true
+		}
+		d.Cells = append(d.Cells, cd)
+	}
+	for _, k := range j.Duplicates {
+		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: k.Rows})
+	}
+	return d, nil
+}
+
+// infiniteDelta reports whether a null delta between two cells stands for
+// an infinite one: both are numbers, neither NaN (which has no delta).
+func infiniteDelta(w, g Cell) bool {
+	isNum := func(c Cell) bool {
+		f, ok := c.Value.(float64)
+		_, isInt := c.Value.(int64)
+		return !c.Null && (isInt || (ok && f == f))
+	}
+	return isNum(w) && isNum(g)
+}
+
+func rowFromJSON(r *jsonRow) RowRef {
+	out := RowRef{Want: -1, Got: -1}
+	if r == nil {
+		return out
+	}
+	if r.Want != nil {
+		out.Want = *r.Want
+	}
+	if r.Got != nil {
+		out.Got = *r.Got
+	}
+	out.Key, out.Cells = r.Key, r.Cells
+	return out
+}
+
+func rowsFromJSON(rs []jsonRow) []RowRef {
+	var out []RowRef
+	for i := range rs {
+		out = append(out, rowFromJSON(&rs[i]))
+	}
+	return out
+}
+
+// cellFromJSON restores a cell from its literal spelling.
+func cellFromJSON(c jsonCellText) (Cell, error) {
+	out := Cell{Text: c.Text, Null: c.Null}
+	if err := out.Kind.UnmarshalText([]byte(c.Kind)); err != nil {
+		return Cell{}, fmt.Errorf("assert: cell in diff JSON: %w", err)
+	}
+	if c.Null {
+		return out, nil
+	}
+	switch out.Kind {
+	case fixtures.KindBool:
+		if v, err := fixtures.ParseBool(c.Text); err == nil {
+			out.Value = v
+		}
+	case fixtures.KindInt64:
+		if v, err := strconv.ParseInt(c.Text, 10, 64); err == nil {
+			out.Value = v
+		}
+	case fixtures.KindFloat64:
+		if v, err := strconv.ParseFloat(c.Text, 64); err == nil {
+			out.Value = v
+		}
+	case fixtures.KindString, fixtures.KindCategory:
+		out.Value = c.Text
+		if strings.HasPrefix(c.Text, `"`) {
+			if v, err := strconv.Unquote(c.Text); err == nil {
+				out.Value = v
+			}
+		}
+	}
+	return out, nil
 }

@@ -199,3 +199,33 @@ func TestTextOfWideTables(t *testing.T) {
 	}
 	require.Regexp(t, `…\+\d+`, text, "left-out columns are counted")
 }
+
+func TestDiffFromJSONRoundTrip(t *testing.T) {
+	keyed, positional := differingTables(t)
+	inf := Compare(lit(t, `x:float64 | s:string
+		1 | "a\x60b"
+		2 | ok`), lit(t, `x:float64 | s:string
+		+Inf | "a\x60c"
+		2 | ok`))
+	dup := Compare(lit(t, `k:int64 | d:date
+		1 | 2026-04-01
+		1 | 2026-04-02`), lit(t, `k:int64 | d:date
+		1 | 2026-04-03`), ByKey("k"), ULPs("*", 1))
+	broken := Compare(nil, lit(t, `a:int64`))
+	for _, d := range []*Diff{keyed, positional, inf, dup, broken} {
+		b, err := d.JSON()
+		require.NoError(t, err)
+		back, err := DiffFromJSON(b)
+		require.NoError(t, err)
+		again, err := back.JSON()
+		require.NoError(t, err)
+		require.Equal(t, string(b), string(again))
+		require.Equal(t, d.Equal(), back.Equal())
+		require.Equal(t, d.Text(), back.Text(), "the text report survives the round trip")
+		require.Equal(t, d.Markdown(), back.Markdown())
+	}
+	_, err := DiffFromJSON([]byte(`{"columns": [{"name": "x", "want_type": "nope"}]}`))
+	require.Error(t, err)
+	_, err = DiffFromJSON([]byte(`not json`))
+	require.Error(t, err)
+}
