@@ -43,7 +43,8 @@ shows on stderr while large files load, when stderr is a terminal.
 Example:
   proofsheet diff --key house,day --tol 'tmean=abs:1e-9' --tol '*=rel:1e-12' \
       want/daily.parquet got/daily.csv
-  proofsheet diff --any-row-order --format markdown --out diff.md want.csv got.csv
+  proofsheet diff --any-row-order --format markdown --out diff.md \
+      want.csv got.csv
 
 Exit status: 0 when the tables are equal, 1 when they differ, 2 on
 trouble (a file that cannot be read, a bad option).

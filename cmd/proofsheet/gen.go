@@ -14,7 +14,7 @@ const genMaxRows = 10_000_000
 func genCommand() *command {
 	c := &command{
 		name:    "gen",
-		summary: "generate a messy raw CSV file from a schema file, the same bytes for the same seed",
+		summary: "generate a messy raw CSV file from a schema file (same seed, same bytes)",
 		usage: `Usage: proofsheet gen --schema FILE [options]
 
 Generates a raw CSV file of the kind a cleanup chain reads — numbers in
@@ -27,7 +27,8 @@ Options:
   --schema FILE      the schema file (see below); required
   --rows N           data rows to write (default 100; duplicates count)
   --seed N           the seed (default 1)
-  --mess LEVEL       none, light or heavy (default: the schema's @mess, else light)
+  --mess LEVEL       none, light or heavy (default: the schema's @mess,
+                     else light)
   --encoding E       utf-8, utf-8-bom, utf-16le or windows-1252
                      (default: the schema's @encoding, else utf-8)
   --out FILE         write to FILE (atomically) instead of stdout

@@ -16,7 +16,7 @@ const stepSummaryVar = "GITHUB_STEP_SUMMARY"
 func reviewCommand() *command {
 	c := &command{
 		name:    "review",
-		summary: "summarise the golden files changed since a git revision, for a pull request",
+		summary: "summarise the golden files changed since a git revision",
 		usage: `Usage: proofsheet review [options] [PATH...]
 
 Finds the golden files (*.gold.tbl, *.gold.txt, *.gold.json) that differ
@@ -46,12 +46,13 @@ Options:
                      -1 lists all)
   --quiet            draw no progress bar
 
-When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown summary is
-appended to it as well, whatever --format says.
+When ` + stepSummaryVar + ` names a file (CI job summaries), the
+Markdown summary is appended to it as well, whatever --format says.
 
 Example:
   proofsheet review --base origin/main --format html --out review.html
-  PROOFSHEET_RECORDS=out/records go test ./... ; proofsheet review --records out/records
+  PROOFSHEET_RECORDS=out/records go test ./...
+  proofsheet review --records out/records --format text
 
 Exit status: 0 when no golden file changed (unchanged within tolerance
 counts as no change), 1 when some file is new, removed or changed, 2 on

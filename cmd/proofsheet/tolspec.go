@@ -12,13 +12,13 @@ import (
 )
 
 // tolHelp documents the --tol syntax in the usage texts.
-const tolHelp = `  --tol SPEC         let cells of a column differ a little (repeatable):
-                       COLUMN=abs:X         |want − got| ≤ X
-                       COLUMN=rel:X         |want − got| ≤ X × max(|want|, |got|)
-                       COLUMN=abs:X,rel:Y   either bound (the larger one)
-                       COLUMN=ulp:N         at most N units in the last place
-                       COLUMN=time:D        dates and timestamps within D (1s, 5m, 24h)
-                     COLUMN * means every float64 column (every date and
+const tolHelp = `  --tol SPEC         let a column's cells differ a little (repeatable):
+                       COL=abs:X        |want − got| ≤ X
+                       COL=rel:X        |want − got| ≤ X·max(|want|, |got|)
+                       COL=abs:X,rel:Y  within either bound
+                       COL=ulp:N        at most N units in the last place
+                       COL=time:D       dates, timestamps within D (1s, 24h)
+                     COL * means every float64 column (every date and
                      timestamp column for time:); a named column's rule wins`
 
 // tolFlags collects repeated --tol specs.
