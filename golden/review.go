@@ -1,12 +1,9 @@
 package golden
 
 import (
-	"encoding/json"
 	"fmt"
-	"math"
 	"os"
 	"slices"
-	"strconv"
 	"strings"
 
 	"github.com/proofsheet/proofsheet/assert"
@@ -513,7 +510,7 @@ func reviewRecord(path string, r Record) FileReview {
 		f.Status = ReviewChanged
 	}
 	if len(r.Diff) > 0 && kind == KindTable {
-		d, err := diffFromJSON(r.Diff)
+		d, err := assert.DiffFromJSON(r.Diff)
 		if err != nil {
 			f.Problems = append(f.Problems, fmt.Sprintf("the record's diff: %v", err))
 		} else {
@@ -524,178 +521,3 @@ func reviewRecord(path string, r Record) FileReview {
 	return f
 }
 
-// diffFromJSON reads a Diff back from the JSON that assert's Diff.JSON
-// writes (as run records hold it). Cells keep their text; their Go values
-// are restored for text cells only. Column lists of missing and extra
-// rows are those of the compared columns when they fit the rows, else
-// numbered.
-func diffFromJSON(raw json.RawMessage) (*assert.Diff, error) {
-	var j struct {
-		Match          string   `json:"match"`
-		Keys           []string `json:"keys"`
-		WantRows       int      `json:"want_rows"`
-		GotRows        int      `json:"got_rows"`
-		MissingRows    int      `json:"missing_rows"`
-		ExtraRows      int      `json:"extra_rows"`
-		CellsDiffering int      `json:"cells_differing"`
-		RowsDiffering  int      `json:"rows_differing"`
-		DuplicateKeys  struct {
-			Want int `json:"want"`
-			Got  int `json:"got"`
-		} `json:"duplicate_keys"`
-		Problems []string `json:"problems"`
-		Schema   []struct {
-			Column, Change, Want, Got string
-		} `json:"schema"`
-		Columns []struct {
-			Name      string   `json:"name"`
-			WantType  string   `json:"want_type"`
-			GotType   string   `json:"got_type"`
-			Rule      string   `json:"rule"`
-			Differing int      `json:"differing"`
-			MaxAbs    *float64 `json:"max_abs_delta"`
-			MaxRel    *float64 `json:"max_rel_delta"`
-			MaxAbsAt  *jRow    `json:"max_abs_at"`
-			MaxRelAt  *jRow    `json:"max_rel_at"`
-		} `json:"columns"`
-		Cells []struct {
-			Row    jRow     `json:"row"`
-			Column string   `json:"column"`
-			Want   jCell    `json:"want"`
-			Got    jCell    `json:"got"`
-			Abs    *float64 `json:"abs_delta"`
-			Rel    *float64 `json:"rel_delta"`
-			ULPs   *uint64  `json:"ulps"`
-		} `json:"cells"`
-		Missing    []jRow `json:"missing"`
-		Extra      []jRow `json:"extra"`
-		Duplicates []struct {
-			Side  string   `json:"side"`
-			Key   []string `json:"key"`
-			Count int      `json:"count"`
-			Rows  []int    `json:"rows"`
-		} `json:"duplicates"`
-		Limit *int `json:"limit"`
-	}
-	if err := json.Unmarshal(raw, &j); err != nil {
-		return nil, err
-	}
-	d := &assert.Diff{
-		WantRows: j.WantRows, GotRows: j.GotRows, Match: assert.MatchMode(j.Match), Keys: j.Keys,
-		Problems: j.Problems, CellsDiffering: j.CellsDiffering, RowsDiffering: j.RowsDiffering,
-		Missing: assert.RowList{Count: j.MissingRows}, Extra: assert.RowList{Count: j.ExtraRows},
-		Duplicates: assert.DuplicateList{WantKeys: j.DuplicateKeys.Want, GotKeys: j.DuplicateKeys.Got},
-		Limit:      assert.DefaultListLimit,
-	}
-	if d.Match == "" {
-		d.Match = assert.MatchByPosition
-	}
-	if j.Limit != nil {
-		d.Limit = *j.Limit
-	}
-	for _, s := range j.Schema {
-		d.Schema = append(d.Schema, assert.SchemaChange{Column: s.Column, Change: assert.ChangeKind(s.Change), Want: s.Want, Got: s.Got})
-	}
-	for _, c := range j.Columns {
-		cs := assert.ColumnSummary{Name: c.Name, Rule: c.Rule, Differing: c.Differing, MaxAbsAt: rowOf(c.MaxAbsAt), MaxRelAt: rowOf(c.MaxRelAt)}
-		cs.WantType, _ = fixtures.ParseType(c.WantType)
-		cs.GotType, _ = fixtures.ParseType(c.GotType)
-		if c.MaxAbs != nil {
-			cs.HasDelta, cs.MaxAbs = true, *c.MaxAbs
-		} else if c.MaxAbsAt != nil {
-			cs.HasDelta, cs.MaxAbs = true, math.Inf(1)
-		}
-		if c.MaxRel != nil {
-			cs.MaxRel = *c.MaxRel
-		}
-		d.Columns = append(d.Columns, cs)
-		d.Compared = append(d.Compared, c.Name)
-	}
-	for _, c := range j.Cells {
-		cd := assert.CellDiff{Row: rowOf(&c.Row), Column: c.Column, Want: c.Want.cell(), Got: c.Got.cell()}
-		if c.Abs != nil {
-			cd.Delta.Has, cd.Delta.Abs = true, *c.Abs
-		}
-		if c.Rel != nil {
-			cd.Delta.Has, cd.Delta.Rel = true, *c.Rel
-		}
-		if c.ULPs != nil {
-			cd.Delta.HasULPs, cd.Delta.ULPs = true, *c.ULPs
-		}
-		d.Cells = append(d.Cells, cd)
-	}
-	for _, r := range j.Missing {
-		d.Missing.Rows = append(d.Missing.Rows, rowOf(&r))
-	}
-	for _, r := range j.Extra {
-		d.Extra.Rows = append(d.Extra.Rows, rowOf(&r))
-	}
-	for _, k := range j.Duplicates {
-		d.Duplicates.Keys = append(d.Duplicates.Keys, assert.DuplicateKey{Side: assert.Side(k.Side), Key: k.Key, Count: k.Count, Rows: k.Rows})
-	}
-	d.WantColumns = columnsFor(d.Compared, d.Missing.Rows)
-	d.GotColumns = columnsFor(d.Compared, d.Extra.Rows)
-	return d, nil
-}
-
-type jRow struct {
-	Want  *int     `json:"want"`
-	Got   *int     `json:"got"`
-	Key   []string `json:"key"`
-	Cells []string `json:"cells"`
-}
-
-func rowOf(r *jRow) assert.RowRef {
-	out := assert.RowRef{Want: -1, Got: -1}
-	if r == nil {
-		return out
-	}
-	if r.Want != nil {
-		out.Want = *r.Want
-	}
-	if r.Got != nil {
-		out.Got = *r.Got
-	}
-	out.Key, out.Cells = r.Key, r.Cells
-	return out
-}
-
-type jCell struct {
-	Text string        `json:"text"`
-	Kind fixtures.Kind `json:"kind"`
-	Null bool          `json:"null"`
-}
-
-func (c jCell) cell() assert.Cell {
-	out := assert.Cell{Text: c.Text, Kind: c.Kind, Null: c.Null}
-	if c.Kind.IsText() && !c.Null {
-		out.Value = c.Text
-		if strings.HasPrefix(c.Text, `"`) {
-			if s, err := strconv.Unquote(c.Text); err == nil {
-				out.Value = s
-			}
-		}
-	}
-	return out
-}
-
-// columnsFor returns the compared columns when every row has that many
-// cells, else numbered names.
-func columnsFor(compared []string, rows []assert.RowRef) []string {
-	n := len(compared)
-	fits := true
-	for _, r := range rows {
-		if len(r.Cells) != n {
-			fits, n = false, len(r.Cells)
-			break
-		}
-	}
-	if fits {
-		return compared
-	}
-	cols := make([]string, n)
-	for i := range cols {
-		cols[i] = "#" + strconv.Itoa(i+1)
-	}
-	return cols
-}
