@@ -520,4 +520,3 @@ func reviewRecord(path string, r Record) FileReview {
 	}
 	return f
 }
-
