@@ -178,7 +178,22 @@ func (r *Review) Headline() string {
 // line by line, JSON by path (see JSONDiff). A version that cannot be
 // read is a Problem and makes the file changed. A file whose kind is not
 // known is compared as text.
+//
+// The same opts apply to every table, so an option naming a column that a
+// table lacks is a Problem of that table's comparison; use
+// ReviewChangeFor to choose options by a table's columns.
 func ReviewChange(c FileChange, opts ...assert.Option) FileReview {
+	return ReviewChangeFor(c, func([]string) []assert.Option { return opts })
+}
+
+// OptionsFor chooses the comparison options of a table from its columns:
+// the names of both versions' columns, old first, each name once.
+type OptionsFor func(columns []string) []assert.Option
+
+// ReviewChangeFor is ReviewChange with the options of each table chosen
+// by its columns, so one set of rules (a tolerance for tmax, say) can
+// serve tables that do not all have the columns it names.
+func ReviewChangeFor(c FileChange, optsFor OptionsFor) FileReview {
 	kind, ok := kindOfFile(c.Path)
 	if !ok {
 		kind = KindText
@@ -196,7 +211,7 @@ func ReviewChange(c FileChange, opts ...assert.Option) FileReview {
 	}
 	switch kind {
 	case KindTable:
-		reviewTable(&f, c, opts)
+		reviewTable(&f, c, optsFor)
 	case KindJSON:
 		reviewJSON(&f, c)
 	default:
@@ -208,7 +223,7 @@ func ReviewChange(c FileChange, opts ...assert.Option) FileReview {
 // previewRows is how many rows or lines a new or removed file shows.
 const previewRows = 10
 
-func reviewTable(f *FileReview, c FileChange, opts []assert.Option) {
+func reviewTable(f *FileReview, c FileChange, optsFor OptionsFor) {
 	var old, cur *fixtures.Table
 	var oldInfo, newInfo SheetInfo
 	var err error
@@ -243,9 +258,18 @@ func reviewTable(f *FileReview, c FileChange, opts []assert.Option) {
 			keys = nil
 		}
 	}
-	all := opts
+	names := old.Names()
+	for _, n := range cur.Names() {
+		if old.Column(n) == nil {
+			names = append(names, n)
+		}
+	}
+	var all []assert.Option
 	if len(keys) > 0 {
-		all = append([]assert.Option{assert.ByKey(keys...)}, opts...)
+		all = append(all, assert.ByKey(keys...))
+	}
+	if optsFor != nil {
+		all = append(all, optsFor(names)...)
 	}
 	f.Diff = assert.Compare(old, cur, all...)
 	f.Status = ReviewChanged

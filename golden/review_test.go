@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -294,4 +295,29 @@ func ExampleReviewChange() {
 	// 1 golden file differs: 1 changed
 	// changed | 1 differing cell in 1 row; largest Δabs 0.5 (tmax)
 	// [Étang] tmax 21.5 → 22
+}
+
+func TestReviewChangeForChoosesOptionsByColumns(t *testing.T) {
+	noise := strings.Replace(reviewOld, "18.25", "18.250000000000004", 1)
+	c := change("d/daily.gold.tbl", reviewOld, noise)
+	tmaxTol := assert.Tol("tmax", 0, 1e-12)
+	other := assert.Tol("gdd", 0, 1e-12) // a column this table lacks
+	f := ReviewChange(c, tmaxTol, other)
+	require.Equal(t, ReviewChanged, f.Status, "the same options for every table: gdd is a problem here")
+	require.NotEmpty(t, f.Diff.Problems)
+
+	var seen []string
+	f = ReviewChangeFor(c, func(cols []string) []assert.Option {
+		seen = cols
+		var opts []assert.Option
+		for name, o := range map[string]assert.Option{"tmax": tmaxTol, "gdd": other} {
+			if slices.Contains(cols, name) {
+				opts = append(opts, o)
+			}
+		}
+		return opts
+	})
+	require.Equal(t, []string{"house", "day", "tmax", "kept"}, seen)
+	require.Equal(t, ReviewUnchanged, f.Status)
+	require.Empty(t, f.Diff.Problems)
 }

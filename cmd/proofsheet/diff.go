@@ -2,6 +2,7 @@ package main
 
 import (
 	"strconv"
+	"strings"
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
@@ -122,6 +123,18 @@ func runDiff(e *env, c *command, args []string) int {
 	if err != nil {
 		bar.finish()
 		return trouble(e, c, "%v", err)
+	}
+	// An option naming a column neither file has is a mistake in the
+	// command line, not a difference between the files.
+	named := append(splitList(*keys), splitList(*ignore)...)
+	for _, spec := range tols {
+		named = append(named, tolColumn(spec))
+	}
+	for _, col := range named {
+		if col != assert.AllColumns && want.Column(col) == nil && got.Column(col) == nil {
+			bar.finish()
+			return trouble(e, c, "no column %q in either file (want: %s; got: %s)", col, strings.Join(want.Names(), ", "), strings.Join(got.Names(), ", "))
+		}
 	}
 	if want.NumRows()+got.NumRows() >= 100_000 {
 		bar.start("comparing "+strconv.Itoa(want.NumRows())+" and "+strconv.Itoa(got.NumRows())+" rows …", 0)

@@ -42,6 +42,8 @@ Options:
                      written only when the review could be made
 ` + tolHelp + `
   --ignore COLS      leave these comma-separated table columns out
+                     (--tol and --ignore apply to the tables that have the
+                     column they name)
   --max-cells N      list at most N changed cells per table (default 10;
                      -1 lists all)
   --quiet            draw no progress bar
@@ -81,14 +83,35 @@ func runReview(e *env, c *command, args []string) int {
 	if !reportFormats[*format] {
 		return trouble(e, c, "--format %q: unknown format (want markdown, text, json or html)", *format)
 	}
-	opts, err := tolOptions(tols)
+	tolOpts, err := tolOptions(tols)
 	if err != nil {
 		return trouble(e, c, "%v", err)
 	}
-	if cols := splitList(*ignore); len(cols) > 0 {
-		opts = append(opts, assert.IgnoreColumns(cols...))
+	ignored := splitList(*ignore)
+	// Each table gets the rules for the columns it has: one --tol serves
+	// goldens that do not all have its column.
+	optsFor := func(cols []string) []assert.Option {
+		has := map[string]bool{assert.AllColumns: true}
+		for _, c := range cols {
+			has[c] = true
+		}
+		var opts []assert.Option
+		for i, spec := range tols {
+			if has[tolColumn(spec)] {
+				opts = append(opts, tolOpts[i])
+			}
+		}
+		var ign []string
+		for _, c := range ignored {
+			if has[c] {
+				ign = append(ign, c)
+			}
+		}
+		if len(ign) > 0 {
+			opts = append(opts, assert.IgnoreColumns(ign...))
+		}
+		return append(opts, assert.ListLimit(*maxCells))
 	}
-	opts = append(opts, assert.ListLimit(*maxCells))
 	if err := checkOut(*out); err != nil {
 		return trouble(e, c, "%v", err)
 	}
@@ -108,7 +131,7 @@ func runReview(e *env, c *command, args []string) int {
 		rv = golden.ReviewRecords(recs)
 		rv.Against = "the run records in " + *recordsDir
 	} else {
-		rv, err = reviewGit(e, *base, paths, opts, newProgress(e, *quiet))
+		rv, err = reviewGit(*base, paths, optsFor, newProgress(e, *quiet))
 		if err != nil {
 			return trouble(e, c, "%v", err)
 		}
@@ -143,7 +166,7 @@ func runReview(e *env, c *command, args []string) int {
 
 // reviewGit reviews the golden files that differ between base and the
 // work tree around the working directory.
-func reviewGit(e *env, base string, paths []string, opts []assert.Option, bar *progress) (*golden.Review, error) {
+func reviewGit(base string, paths []string, optsFor golden.OptionsFor, bar *progress) (*golden.Review, error) {
 	wd, err := os.Getwd()
 	if err != nil {
 		return nil, err
@@ -185,7 +208,7 @@ func reviewGit(e *env, base string, paths []string, opts []assert.Option, bar *p
 				return nil, fmt.Errorf("reading %s: %w", ch.path, err)
 			}
 		}
-		rv.Files = append(rv.Files, golden.ReviewChange(fc, opts...))
+		rv.Files = append(rv.Files, golden.ReviewChangeFor(fc, optsFor))
 		bar.add(1)
 	}
 	bar.finish()

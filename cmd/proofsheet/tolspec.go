@@ -40,7 +40,7 @@ func parseTol(spec string) (assert.Option, error) {
 	if eq < 0 {
 		return bad("want COLUMN=RULE, such as tmax=abs:0.01, *=rel:1e-9, gdd=ulp:4 or at=time:1s")
 	}
-	col, rules := strings.TrimSpace(spec[:eq]), strings.TrimSpace(spec[eq+1:])
+	col, rules := tolColumn(spec), strings.TrimSpace(spec[eq+1:])
 	if col == "" {
 		return bad("no column before =; use * for every column")
 	}
@@ -108,6 +108,15 @@ func parseTol(spec string) (assert.Option, error) {
 		return assert.TimeTol(col, *within), nil
 	}
 	return assert.Tol(col, abs, rel), nil
+}
+
+// tolColumn returns the column a --tol spec names.
+func tolColumn(spec string) string {
+	eq := strings.LastIndexByte(spec, '=')
+	if eq < 0 {
+		return ""
+	}
+	return strings.TrimSpace(spec[:eq])
 }
 
 // tolOptions turns every --tol spec into an option.
