@@ -11,6 +11,10 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/golden"
+	"github.com/proofsheet/proofsheet/internal/greenhouse"
 	"github.com/stretchr/testify/require"
 )
 
@@ -215,4 +219,43 @@ func TestProfileOptions(t *testing.T) {
 	r = runBin(t, "", nil, "profile", "--json", p, p)
 	require.Equal(t, exitSame, r.code, r.stderr)
 	require.True(t, strings.HasPrefix(strings.TrimSpace(r.stdout), "["), "several files give a JSON array")
+}
+
+func TestDemo(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "review.html")
+	r := runBin(t, "", nil, "demo", "--html", out)
+	require.Equal(t, exitSame, r.code, r.stderr)
+	for _, want := range []string{
+		"1. What the loggers uploaded", "encoding    windows-1252", "encoding    utf-16le",
+		"2. The cleanup chain", "3. The report against its golden file", "tables are equal",
+		"4. Generated mess", "All held", "5. Someone changes a rounding rule", "## Golden file review",
+	} {
+		require.Contains(t, r.stdout, want)
+	}
+	require.NotContains(t, r.stdout, "\x1b[", "no colour when stdout is not a terminal")
+
+	// The page highlights exactly the cells the changed chain changes.
+	uploads := greenhouse.Uploads()
+	var tables []*fixtures.Table
+	for _, u := range uploads {
+		tb, _, err := greenhouse.Load(u.Name, u.Data)
+		require.NoError(t, err)
+		tables = append(tables, tb)
+	}
+	changed, err := greenhouse.Report(tables, greenhouse.Options{Decimals: 1})
+	require.NoError(t, err)
+	want, _, err := golden.DecodeTable("daily", greenhouse.DailyGolden())
+	require.NoError(t, err)
+	d := assert.Compare(want, changed, greenhouse.GoldenOptions()...)
+	require.False(t, d.Equal())
+	page, err := os.ReadFile(out)
+	require.NoError(t, err)
+	require.Equal(t, d.CellsDiffering, strings.Count(string(page), `class="`+assert.HTMLChangedCell+`"`))
+
+	r = runBin(t, "", nil, "demo", "extra")
+	require.Equal(t, exitTrouble, r.code)
+	require.Contains(t, r.stderr, "takes no arguments")
+	r = runBin(t, "", nil, "demo", "--html", filepath.Join(t.TempDir(), "no", "such", "dir.html"))
+	require.Equal(t, exitTrouble, r.code)
+	require.Empty(t, r.stdout, "nothing runs when the page cannot be written")
 }

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
 	"golang.org/x/text/unicode/norm"
 )
@@ -56,6 +57,17 @@ var reportKeys = []string{"house", "day"}
 
 // ReportKeys returns the key columns of the daily report.
 func ReportKeys() []string { return append([]string(nil), reportKeys...) }
+
+// GoldenTolerance is how far a float of the daily report may move before
+// its golden check fails: rounding noise only, far below the 0.01 the
+// report shows.
+const GoldenTolerance = 1e-9
+
+// GoldenOptions are the comparison options of the daily report's golden
+// file: rows by house and day, floats within GoldenTolerance.
+func GoldenOptions() []assert.Option {
+	return []assert.Option{assert.ByKey(reportKeys...), assert.Tol("*", GoldenTolerance, 0)}
+}
 
 // FahrenheitToCelsius converts exactly as NIST SP 811 defines it:
 // t/°C = (t/°F − 32) × 5/9.

@@ -2,14 +2,10 @@ package greenhouse
 
 import (
 	"bytes"
-	"fmt"
-	"math"
 	"math/big"
 	"os"
 	"path/filepath"
-	"sort"
 	"testing"
-	"time"
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
@@ -203,174 +199,12 @@ func TestDailyReportGolden(t *testing.T) {
 	for _, u := range uploads {
 		total += u.NumRows()
 	}
-	require.Equal(t, total, sumInt(report, "kept")+sumInt(report, "dropped"))
+	require.Equal(t, total, columnSum(report, "kept")+columnSum(report, "dropped"))
 
-	golden.Table(t, "daily", report, GoldenOptions()...)
-}
-
-func sumInt(t *fixtures.Table, col string) int {
-	c := t.Column(col)
-	n := 0
-	for i := 0; i < c.Len(); i++ {
-		n += int(c.Int64(i))
-	}
-	return n
-}
-
-// readingsSchema of the generated uploads: what a logger's file holds.
-func uploadSchema() fixtures.Schema {
-	return fixtures.Schema{
-		fixtures.Col("house", fixtures.Category),
-		fixtures.Col("logged_at", fixtures.TimestampOf(fixtures.Seconds, "")),
-		fixtures.Col("temp_c", fixtures.Float64),
-	}
-}
-
-// loggerMess is the mess the network's loggers really write and the chain
-// is meant to undo. Thousands separators, currency signs and the like never
-// occur in a temperature column, and the chain reads them as faults.
-func loggerMess() property.Options {
-	return property.Options{
-		Mess:     property.Light,
-		MaxRows:  60,
-		Runs:     60,
-		MessRate: 0.3,
-		Spellings: []property.Mess{
-			property.MessEdgeSpace, property.MessSpaceSeparator, property.MessTrailingZeros,
-			property.MessLeadingZeros, property.MessPlusSign, property.MessExponent,
-			property.MessNullToken, property.MessSentinel,
-		},
-		Sentinels:     []string{"-999", "ERR"},
-		NullTokens:    MissingWords(),
-		NullRate:      0.05,
-		SentinelRate:  0.05,
-		DuplicateRate: 0.1,
-		Levels:        map[string][]string{"house": {"Bellecôte", "Kæreby", "Piñonal", "Ørnely"}},
-		DateFrom:      time.Date(2026, 4, 1, 0, 0, 0, 0, time.UTC),
-		DateTo:        time.Date(2026, 4, 3, 0, 0, 0, 0, time.UTC),
-		Decimals:      1,
-		MaxDigits:     2,
-	}
-}
-
-func chain(raw *fixtures.Table) (*fixtures.Table, error) {
-	return Report([]*fixtures.Table{raw}, Options{})
+	golden.Table(t, GoldenName, report, GoldenOptions()...)
 }
 
 func TestChainProperties(t *testing.T) {
-	opts := loggerMess()
-	report := []assert.Option{assert.ByKey("house", "day"), assert.Tol("*", 1e-9, 0)}
-	property.Check(t, uploadSchema(), Clean, opts,
-		property.NoPanic(),
-		property.Idempotent(),
-		property.NoNulls("house", "status"))
-	property.Check(t, uploadSchema(), chain, opts,
-		property.NoPanic(),
-		property.OrderFree(report...),
-		property.SameOnPlain(report...),
-		property.Holds("kept + dropped = readings in", func(s *property.Sample, out *fixtures.Table) error {
-			in := s.Raw().NumRows()
-			if got := sumInt(out, "kept") + sumInt(out, "dropped"); got != in {
-				return fmt.Errorf("kept + dropped = %d, want %d readings in", got, in)
-			}
-			return nil
-		}),
-		// The duplicates the raw file repeats are dropped, so "dropped" is
-		// the one column the clean table cannot predict.
-		property.MatchesClean(reference, append(report, assert.IgnoreColumns("dropped"))...))
-}
-
-// reference computes the daily report from a clean, typed table in the
-// plainest way, independently of Clean and Daily: it is what the chain
-// must agree with.
-func reference(clean *fixtures.Table) (*fixtures.Table, error) {
-	type key struct {
-		house string
-		day   string
-	}
-	type stamp struct {
-		house string
-		at    int64
-	}
-	house, at, temp := clean.Column("house"), clean.Column("logged_at"), clean.Column("temp_c")
-	// The same house and second twice: the lowest temperature counts.
-	lowest := map[stamp]float64{}
-	undated := map[string]int{}
-	faults := map[key]int{}
-	for i := 0; i < clean.NumRows(); i++ {
-		h := ""
-		if !house.IsNull(i) {
-			h = house.Str(i)
-		}
-		if at.IsNull(i) {
-			undated[h]++
-			continue
-		}
-		day := at.Time(i).Format("2006-01-02")
-		v := temp.Float64(i)
-		if temp.IsNull(i) || math.IsNaN(v) || math.IsInf(v, 0) || v == Sentinel {
-			faults[key{h, day}]++
-			continue
-		}
-		s := stamp{h, at.Time(i).Unix()}
-		if old, ok := lowest[s]; !ok || v < old {
-			lowest[s] = v
-		}
-	}
-	days := map[key][]float64{}
-	for s, v := range lowest {
-		k := key{s.house, time.Unix(s.at, 0).UTC().Format("2006-01-02")}
-		days[k] = append(days[k], v)
-	}
-	for k := range faults {
-		if _, ok := days[k]; !ok {
-			days[k] = nil
-		}
-	}
-	keys := make([]key, 0, len(days))
-	for k := range days {
-		keys = append(keys, k)
-	}
-	sort.Slice(keys, func(i, j int) bool {
-		if keys[i].house != keys[j].house {
-			return keys[i].house < keys[j].house
-		}
-		return keys[i].day < keys[j].day
-	})
-	r2 := func(v float64) float64 { return RoundRat(DecimalOf(v), 2) }
-	// The mean of the readings as written, exactly, then rounded: the
-	// definition, whatever order the readings come in.
-	mean := func(ts []float64) float64 {
-		var sum big.Rat
-		for _, v := range ts {
-			sum.Add(&sum, DecimalOf(v))
-		}
-		return RoundRat(sum.Quo(&sum, new(big.Rat).SetInt64(int64(len(ts)))), 2)
-	}
-	b := fixtures.NewBuilder(ReportSchema())
-	for h, n := range undated {
-		b.Row(h, nil, nil, nil, nil, 0, n, nil, nil)
-	}
-	season := map[string]float64{}
-	for _, k := range keys {
-		ts := days[k]
-		if len(ts) == 0 {
-			b.Row(k.house, k.day, nil, nil, nil, 0, 0, nil, r2(season[k.house]))
-			continue
-		}
-		lo, hi := ts[0], ts[0]
-		for _, v := range ts {
-			lo, hi = math.Min(lo, v), math.Max(hi, v)
-		}
-		g := math.Max(0, (lo+hi)/2-10)
-		season[k.house] += g
-		b.Row(k.house, k.day, r2(lo), r2(hi), mean(ts), len(ts), 0, r2(g), r2(season[k.house]))
-	}
-	return b.Build()
-}
-
-// GoldenOptions are the comparison options of the daily report's golden
-// file: rows by house and day, floats within 1e-9 (rounding noise only).
-func GoldenOptions() []assert.Option {
-	return []assert.Option{assert.ByKey(reportKeys...), assert.Tol("*", 1e-9, 0)}
+	property.Check(t, UploadSchema(), Clean, LoggerMess(), CleanInvariants()...)
+	property.Check(t, UploadSchema(), OneUpload, LoggerMess(), ReportInvariants()...)
 }

@@ -13,6 +13,21 @@ import (
 //go:embed raw
 var rawFiles embed.FS
 
+// The daily report's golden file, as TestDailyReportGolden keeps it.
+//
+//go:embed testdata/daily.gold.tbl
+var dailyGolden []byte
+
+// GoldenName is the daily report's golden name and GoldenPath its file,
+// relative to the repository root.
+const (
+	GoldenName = "daily"
+	GoldenPath = "internal/greenhouse/testdata/daily.gold.tbl"
+)
+
+// DailyGolden returns the bytes of the daily report's golden file.
+func DailyGolden() []byte { return append([]byte(nil), dailyGolden...) }
+
 // Upload is one raw datalogger file.
 type Upload struct {
 	Name string // file name, e.g. "bellecote.csv"
