@@ -2,11 +2,11 @@ package property
 
 import (
 	"fmt"
+	"github.com/proofsheet/proofsheet/internal/cp1252"
 	"strconv"
 	"strings"
 	"unicode/utf8"
 
-	"golang.org/x/text/encoding/charmap"
 	"golang.org/x/text/encoding/unicode"
 
 	"github.com/proofsheet/proofsheet/fixtures"
@@ -295,9 +295,9 @@ func writeCSV(st CSVStyle, seed int64, n int, row func(i int) []Messy, where fun
 		}
 		return out, nil
 	case fixtures.EncodingWindows1252:
-		out, err := charmap.Windows1252.NewEncoder().Bytes(b)
-		if err != nil {
-			return nil, fmt.Errorf("property: encoding as Windows-1252: %w", err)
+		out, ok := cp1252.Encode(b)
+		if !ok {
+			return nil, fmt.Errorf("property: encoding as Windows-1252: the text has a character Windows-1252 lacks")
 		}
 		return out, nil
 	}

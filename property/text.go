@@ -1,11 +1,11 @@
 package property
 
 import (
+	"github.com/proofsheet/proofsheet/internal/cp1252"
 	"strings"
 	"unicode"
 	"unicode/utf8"
 
-	"golang.org/x/text/encoding/charmap"
 	"golang.org/x/text/unicode/norm"
 )
 
@@ -75,21 +75,12 @@ func stripAccents(s string) string {
 	return norm.NFC.String(b.String())
 }
 
-// cp1252 decodes each byte as Windows-1252, from x/text's charmap table.
-// The bytes 81, 8D, 8F, 90 and 9D have no character there and decode to
-// U+FFFD.
-var cp1252 = func() (t [256]rune) {
-	for b := range t {
-		t[b] = charmap.Windows1252.DecodeByte(byte(b))
-	}
-	return t
-}()
-
 // Mojibake returns what a program shows for s when it reads the UTF-8
 // bytes of s as Windows-1252 and writes the result as UTF-8 again:
-// "é" (C3 A9) becomes "Ã©". Bytes with no Windows-1252 character (81, 8D,
-// 8F, 90, 9D, as in the UTF-8 of Á Í Ï Ð Ý) become U+FFFD, so those texts
-// cannot be restored.
+// "é" (C3 A9) becomes "Ã©". Bytes is read with the WHATWG table, where the
+// five bytes Microsoft leaves undefined (81, 8D, 8F, 90, 9D, as in the UTF-8
+// of Á Í Ï Ð Ý) are the C1 controls of the same number, so every text can
+// be restored; the loader reads Windows-1252 files with the same table.
 func Mojibake(s string) string {
 	var b strings.Builder
 	b.Grow(len(s) * 2)
@@ -99,7 +90,7 @@ func Mojibake(s string) string {
 			b.WriteByte(c)
 			continue
 		}
-		b.WriteRune(cp1252[c])
+		b.WriteRune(cp1252.Rune(c))
 	}
 	return b.String()
 }
@@ -129,40 +120,15 @@ func UndoMojibake(s string) (clean string, ok bool) {
 // toWindows1252 encodes s as Windows-1252 bytes (invalid UTF-8 when s has
 // characters beyond ASCII).
 func toWindows1252(s string) (string, bool) {
-	b := make([]byte, 0, len(s))
-	for _, r := range s {
-		if r < 0x80 {
-			b = append(b, byte(r))
-			continue
-		}
-		c, ok := charmap.Windows1252.EncodeRune(r)
-		if !ok {
-			return "", false
-		}
-		b = append(b, c)
-	}
-	return string(b), true
+	b, ok := cp1252.Encode([]byte(s))
+	return string(b), ok
 }
 
 // fitsWindows1252 reports whether s is valid UTF-8 whose every character
 // has a Windows-1252 byte.
 func fitsWindows1252(s string) bool {
-	for i := 0; i < len(s); {
-		c := s[i]
-		if c < 0x80 {
-			i++
-			continue
-		}
-		r, n := utf8.DecodeRuneInString(s[i:])
-		if r == utf8.RuneError && n == 1 {
-			return false
-		}
-		if _, ok := charmap.Windows1252.EncodeRune(r); !ok {
-			return false
-		}
-		i += n
-	}
-	return true
+	_, ok := cp1252.Encode([]byte(s))
+	return ok
 }
 
 // IllFormedUTF8 lists byte sequences that are not well-formed UTF-8, as the
