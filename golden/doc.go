@@ -120,6 +120,17 @@
 // to a JSON Lines file there, one file per test process, so a tool can
 // summarise what a run found; ReadRecords reads them back.
 //
+// # Reviews
+//
+// A Review summarises a set of changed golden files for a person: per file
+// its status (new, removed, changed, unchanged within tolerance), row
+// counts, key and schema changes, the first changed cells and the largest
+// deltas. ReviewChange compares the old and new bytes of one file by its
+// kind (tables with assert.Compare, text by line, JSON by path);
+// ReviewRecords builds a Review from run records. A Review renders as Text,
+// Markdown (for a pull-request comment), JSON and one self-contained HTML
+// page. The proofsheet review command builds one from git.
+//
 // # Concurrency
 //
 // Checks may run in parallel tests. Files are written through a temporary
