@@ -14,7 +14,7 @@ const genMaxRows = 10_000_000
 func genCommand() *command {
 	c := &command{
 		name:    "gen",
-		summary: "generate a messy raw CSV file from a schema file (same seed, same bytes)",
+		summary: "generate a messy raw CSV file from a schema file, reproducibly",
 		usage: `Usage: proofsheet gen --schema FILE [options]
 
 Generates a raw CSV file of the kind a cleanup chain reads — numbers in

@@ -12,7 +12,7 @@ import (
 func profileCommand() *command {
 	c := &command{
 		name:    "profile",
-		summary: "report what a raw file holds: encoding, delimiter, kinds, nulls, bad values",
+		summary: "what a raw file holds: encoding, delimiter, kinds, nulls, bad values",
 		usage: `Usage: proofsheet profile [options] FILE...
 
 Loads each table file the way fixtures.ReadFile does and reports what the
