@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/bits"
 	"runtime"
+	"slices"
 	"sync"
 	"sync/atomic"
 	"unsafe"
@@ -202,17 +203,22 @@ func (c *comparison) compareColumns() []*colResult {
 }
 
 // reorder lets a keyed comparison read got's cells in want's order without
-// random reads: for each range of taskSlots want rows it lists the got rows
-// paired into the range, in ascending order, so a task can scatter their
-// values into a range-sized buffer (random writes into a buffer that stays
-// in cache) and then compare it with want's values in one sequential pass.
-// On large tables this is several times faster than reading got's cells
-// at random.
+// random reads: for each range of taskSlots want rows it lists the pairs
+// whose want row lies in the range, in ascending got row order, so a task
+// can scatter got's values into a range-sized buffer (random writes into a
+// buffer that stays in cache) and then compare it with want's values in one
+// sequential pass. On large tables this is several times faster than
+// reading got's cells at random.
 type reorder struct {
-	wantOf  []int32   // got row → its partner's want row (paired got rows only)
-	byRange [][]int32 // per range of want rows: the got rows paired into it
-	bufs    []uint64  // spare memory for the per-goroutine buffers
+	// byRange[r] lists the pairs of want rows r*taskSlots.. as
+	// got row<<32 | (want row − r*taskSlots), in ascending got row order.
+	byRange [][]uint64
+	bufs    []uint64 // spare memory for the per-goroutine buffers
 }
+
+// pairAt splits an entry of reorder.byRange into the got row and the want
+// row's offset in its range.
+func pairAt(e uint64) (gi uint64, k uint32) { return e >> 32, uint32(e) }
 
 // buffer returns goroutine w's buffer (of workers): an equal share of the
 // spare memory, at least taskSlots words.
@@ -224,57 +230,84 @@ func (ro *reorder) buffer(w, workers int) []uint64 {
 	return make([]uint64, taskSlots)
 }
 
-// newReorder builds the reorder of a keyed pairing (gOf: want row → got
-// row or -1) over ng got rows, reusing spare memory where it is large
-// enough.
-func newReorder(gOf []int32, ng int, sp spares) *reorder {
-	ro := &reorder{bufs: sp.words}
-	if len(sp.gotRows) >= ng {
-		ro.wantOf = sp.gotRows[:ng]
-	} else {
-		ro.wantOf = make([]int32, ng)
+// newReorder builds the reorder of a keyed pairing of nw want rows
+// (wantOf: got row → want row or -1) on the given number of goroutines,
+// reusing spare memory where it is large enough.
+func newReorder(wantOf []int32, nw int, sp spares, workers int) *reorder {
+	ro := &reorder{bufs: sp.buffers}
+	if len(ro.bufs) < workers*2*taskSlots {
+		ro.bufs = make([]uint64, workers*2*taskSlots)
 	}
-	for j := range ro.wantOf {
-		ro.wantOf[j] = -1
+	// Each goroutine counts, then places, the pairs of a run of got rows;
+	// a range's list holds the first run's pairs, then the second's...
+	nr := (nw + taskSlots - 1) / taskSlots
+	counts := make([][]int, workers)
+	split(workers, len(wantOf), func(t, lo, hi int) {
+		c := make([]int, nr)
+		for _, k := range wantOf[lo:hi] {
+			if k >= 0 {
+				c[int(k)/taskSlots]++
+			}
+		}
+		counts[t] = c
+	})
+	starts := make([]int, nr+1)
+	at := make([][]int, workers)
+	for t := range at {
+		at[t] = make([]int, nr)
 	}
-	nr := (len(gOf) + taskSlots - 1) / taskSlots
-	counts := make([]int, nr+1)
-	paired := 0
-	for k, j := range gOf {
-		if j >= 0 {
-			ro.wantOf[j] = int32(k)
-			counts[k/taskSlots+1]++
-			paired++
+	for r := range nr {
+		starts[r+1] = starts[r]
+		for t := range workers {
+			at[t][r] = starts[r+1]
+			starts[r+1] += counts[t][r]
 		}
 	}
-	for i := 1; i <= nr; i++ {
-		counts[i] += counts[i-1]
+	flat := sp.words
+	if len(flat) < starts[nr] {
+		flat = make([]uint64, starts[nr])
 	}
-	var flat []int32
-	if len(sp.wantRows) >= paired {
-		flat = sp.wantRows[:paired]
-	} else {
-		flat = make([]int32, paired)
-	}
-	next := append([]int(nil), counts[:nr]...)
-	for j := 0; j < ng; j++ {
-		if ro.wantOf[j] >= 0 {
-			r := int(ro.wantOf[j]) / taskSlots
-			flat[next[r]] = int32(j)
-			next[r]++
+	split(workers, len(wantOf), func(t, lo, hi int) {
+		next := slices.Clone(at[t]) // a copy of its own: no cache line shared with other goroutines
+		for j := lo; j < hi; j++ {
+			if k := int(wantOf[j]); k >= 0 {
+				r := k / taskSlots
+				flat[next[r]] = uint64(j)<<32 | uint64(k-r*taskSlots)
+				next[r]++
+			}
 		}
-	}
-	ro.byRange = make([][]int32, nr)
+	})
+	ro.byRange = make([][]uint64, nr)
 	for r := range ro.byRange {
-		ro.byRange[r] = flat[counts[r]:counts[r+1]]
+		ro.byRange[r] = flat[starts[r]:starts[r+1]:starts[r+1]]
 	}
 	return ro
 }
 
+// split cuts [0, n) into as many contiguous runs as there are workers and
+// runs f(t, lo, hi) for run t on its own goroutine, returning when all are
+// done.
+func split(workers, n int, f func(t, lo, hi int)) {
+	var wg sync.WaitGroup
+	for t := range workers {
+		lo, hi := t*n/workers, (t+1)*n/workers
+		if t == workers-1 {
+			f(t, lo, hi)
+			break
+		}
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			f(t, lo, hi)
+		}()
+	}
+	wg.Wait()
+}
+
 // spares is memory of the key join that later steps may reuse.
 type spares struct {
-	wantRows, gotRows []int32
-	words             []uint64
+	rows           []int32
+	words, buffers []uint64
 }
 
 // scratch is what one goroutine's tasks share.
@@ -294,9 +327,9 @@ func gotInWantOrder[T int8 | int16 | int32 | int64 | float64](sc *scratch, p pai
 	if clearFirst {
 		clear(out)
 	}
-	wantOf := sc.reorder.wantOf
-	for _, j := range sc.reorder.byRange[p.base/taskSlots] {
-		out[int(wantOf[j])-p.base] = got[j]
+	for _, e := range sc.reorder.byRange[p.base/taskSlots] {
+		j, k := pairAt(e)
+		out[k] = got[j]
 	}
 	return out
 }
@@ -648,16 +681,17 @@ func (cc *colCmp) compareStrings(p pairing, r *colResult, sc *scratch) {
 
 // stringsInWantOrder copies the got cells paired into the task's range
 // into a buffer in want order: offs (n+1 entries) and bytes, row k being
-// buf[offs[k]:offs[k+1]]; unpaired rows are empty. Got's bytes are read in
-// ascending order and written into a buffer that stays in cache.
+// buf[offs[k]:offs[k+1]]; unpaired rows are empty. Got's offsets and bytes
+// are read in ascending order; the random writes go into a buffer that
+// stays in cache.
 func (sc *scratch) stringsInWantOrder(p pairing, gOff []int32, gd []byte) (offs []int32, buf []byte) {
 	half := (p.n + 2) / 2
 	offs = unsafe.Slice((*int32)(unsafe.Pointer(unsafe.SliceData(sc.buf))), 2*half)[:p.n+1]
 	clear(offs)
-	rows := sc.reorder.byRange[p.base/taskSlots]
-	wantOf := sc.reorder.wantOf
-	for _, j := range rows {
-		offs[int(wantOf[j])-p.base+1] = gOff[j+1] - gOff[j]
+	pairs := sc.reorder.byRange[p.base/taskSlots]
+	for _, e := range pairs {
+		j, k := pairAt(e)
+		offs[k+1] = gOff[j+1] - gOff[j]
 	}
 	for k := 1; k <= p.n; k++ {
 		offs[k] += offs[k-1]
@@ -671,8 +705,8 @@ func (sc *scratch) stringsInWantOrder(p pairing, gOff []int32, gd []byte) (offs 
 		}
 		buf = sc.bytes[:total]
 	}
-	for _, j := range rows {
-		k := int(wantOf[j]) - p.base
+	for _, e := range pairs {
+		j, k := pairAt(e)
 		copy(buf[offs[k]:offs[k+1]], gd[gOff[j]:gOff[j+1]])
 	}
 	return offs, buf

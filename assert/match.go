@@ -14,9 +14,10 @@ import (
 )
 
 // Row matching by key (ByKey) and as a multiset (AnyRowOrder). Both hash
-// the matching columns of every row once, column by column, and find equal
-// rows through an open-addressing table of want rows; cells are compared
-// only to confirm a hash hit.
+// the matching columns of every row, column by column, and find equal rows
+// through open-addressing tables of want rows; cells are compared only to
+// confirm a hash hit. A single int64 key with dense values skips the
+// hashing (see denseJoin).
 
 // hashBlock is how many rows are hashed at a time.
 const hashBlock = 4096
@@ -230,32 +231,40 @@ func partition(k *rowKeys, side Side, n int, bitsP uint) *partitioned {
 // joined is what joinRows found. A "first" row is the first row of its
 // side with its cells; all lists are in row order.
 type joined struct {
-	// firstGot[i] is, for a first want row i, the first got row with the
-	// same cells; -1 for other want rows and when got has no such row.
-	firstGot []int32
+	// wantOf[j] is, for got row j, the first want row with the same cells,
+	// or -1 when want has no such row.
+	wantOf []int32
 	// wantMore maps a first want row to the later want rows with its cells.
 	wantMore map[int32][]int32
-	// laterGot maps a first want row to the got rows with its cells after
-	// firstGot.
-	laterGot map[int32][]int32
 	// gotOnly maps the first got row of cells want lacks to the later got
 	// rows with them.
 	gotOnly map[int32][]int32
-	// spare is the partitions' memory, free once the join is done.
+	// spare is the join's memory, free once the join is done.
 	spare spares
 }
 
-// joinRows groups the rows of both sides by their matching cells. Large
-// inputs are partitioned and joined on up to GOMAXPROCS goroutines; the
-// result does not depend on the scheduling.
+// joinRows groups the rows of both sides by their matching cells: a dense
+// int64 key through a bitmap (denseJoin), other keys through partitioned
+// hash tables (hashJoin). Large inputs are joined on up to GOMAXPROCS
+// goroutines; the result depends neither on the scheduling nor on the
+// way taken.
 func joinRows(k *rowKeys, nw, ng int) *joined {
+	workers := workersFor(max(nw, ng))
+	if jn := denseJoin(k, workers); jn != nil {
+		return jn
+	}
+	return hashJoin(k, nw, ng, workers)
+}
+
+// hashJoin is joinRows by partitioned hash tables, for any matching
+// columns.
+func hashJoin(k *rowKeys, nw, ng, workers int) *joined {
 	bitsP := uint(0)
 	for (max(nw, ng)>>bitsP) > partitionRows && bitsP < 12 {
 		bitsP++
 	}
 	var w, g *partitioned
-	parallel := max(nw, ng) >= parallelCells && runtime.GOMAXPROCS(0) > 1
-	if parallel {
+	if workers > 1 {
 		var wg sync.WaitGroup
 		wg.Add(1)
 		go func() { defer wg.Done(); w = partition(k, WantSide, nw, bitsP) }()
@@ -265,20 +274,14 @@ func joinRows(k *rowKeys, nw, ng int) *joined {
 		w = partition(k, WantSide, nw, bitsP)
 		g = partition(k, GotSide, ng, bitsP)
 	}
-	out := &joined{firstGot: make([]int32, nw), wantMore: map[int32][]int32{}, laterGot: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
-	for i := range out.firstGot {
-		out.firstGot[i] = -1
-	}
+	out := &joined{wantOf: make([]int32, ng), wantMore: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
 	np := len(w.start) - 1
-	workers := 1
-	if parallel {
-		workers = min(runtime.GOMAXPROCS(0), np)
-	}
+	workers = min(workers, np)
 	parts := make([]*joined, workers)
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for t := range workers {
-		local := &joined{firstGot: out.firstGot, wantMore: map[int32][]int32{}, laterGot: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
+		local := &joined{wantOf: out.wantOf, wantMore: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
 		parts[t] = local
 		wg.Add(1)
 		go func() {
@@ -294,25 +297,30 @@ func joinRows(k *rowKeys, nw, ng int) *joined {
 		}()
 	}
 	wg.Wait()
-	out.spare = spares{wantRows: w.row, gotRows: g.row, words: w.h}
-	if len(g.h) > len(w.h) {
-		out.spare.words = g.h
-	}
+	out.spare = spares{rows: g.row, words: w.h, buffers: g.h}
 	for _, local := range parts {
 		maps.Copy(out.wantMore, local.wantMore)
-		maps.Copy(out.laterGot, local.laterGot)
 		maps.Copy(out.gotOnly, local.gotOnly)
 	}
 	return out
 }
 
+// workersFor returns how many goroutines share the work on n rows: all
+// of GOMAXPROCS from parallelCells rows, else one.
+func workersFor(n int) int {
+	if n >= parallelCells {
+		return runtime.GOMAXPROCS(0)
+	}
+	return 1
+}
+
 // partitionJoin holds the buffers one goroutine reuses across partitions.
 type partitionJoin struct {
 	slots []int32 // want entries as e-wa ≥ 0, got entries as -(e-ga)-2; empty -1
-	first []int32 // per want entry of the partition: its first got row, or -1
 }
 
-// run joins partition p, writing into out.
+// run joins partition p, writing into out: wantOf of every got row of the
+// partition, and the partition's repeated cells.
 func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) {
 	wa, wb := w.start[p], w.start[p+1]
 	ga, gb := g.start[p], g.start[p+1]
@@ -325,13 +333,6 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) 
 	slots := pj.slots[:size]
 	for i := range slots {
 		slots[i] = empty
-	}
-	if cap(pj.first) < wb-wa {
-		pj.first = make([]int32, wb-wa)
-	}
-	first := pj.first[:wb-wa]
-	for i := range first {
-		first[i] = -1
 	}
 	mask := uint64(size - 1)
 	for e := wa; e < wb; e++ {
@@ -355,16 +356,13 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) 
 			x := slots[s]
 			if x == empty {
 				slots[s] = -int32(e-ga) - 2
+				out.wantOf[row] = -1
 				break
 			}
 			if x >= 0 {
 				we := wa + int(x)
 				if w.h[we] == h && k.same(WantSide, int(w.row[we]), GotSide, int(row)) {
-					if first[x] < 0 {
-						first[x] = row
-					} else {
-						out.laterGot[w.row[we]] = append(out.laterGot[w.row[we]], row)
-					}
+					out.wantOf[row] = w.row[we]
 					break
 				}
 				continue
@@ -372,13 +370,9 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) 
 			ge := ga + int(-x-2)
 			if g.h[ge] == h && k.same(GotSide, int(g.row[ge]), GotSide, int(row)) {
 				out.gotOnly[g.row[ge]] = append(out.gotOnly[g.row[ge]], row)
+				out.wantOf[row] = -1
 				break
 			}
-		}
-	}
-	for x, j := range first {
-		if j >= 0 {
-			out.firstGot[w.row[wa+x]] = j
 		}
 	}
 }
@@ -395,24 +389,214 @@ func (k *rowKeys) same(a Side, i int, b Side, j int) bool {
 	return k.equal(a, i, b, j)
 }
 
+// Dense keys: a single int64 key column whose want values are distinct
+// and spread over at most denseSpan values per want row (row numbers,
+// serial ids) is joined without hashing or partitioning, through a bitmap
+// of want's values and the count of set bits before each word: together
+// they give every value its rank among want's values. The bitmap costs an
+// eighth of a byte per value of the span and is read at random, which pays
+// while it stays about the size of the cache.
+
+// denseSpan bounds the spread of want's key values, per want row, for the
+// dense join.
+const denseSpan = 16
+
+// denseLacking is how many got rows whose value want lacks (plus one in 64
+// got rows) the dense join groups itself; beyond that it leaves the work
+// to the general join.
+const denseLacking = 4096
+
+// denseJoin joins by a dense int64 key, or returns nil when the key is not
+// dense, want repeats a value, or got holds too many values want lacks.
+func denseJoin(k *rowKeys, workers int) *joined {
+	w, g := k.wInts, k.gInts
+	if len(w) == 0 {
+		return nil
+	}
+	type extent struct {
+		lo, hi    int64
+		ascending bool
+	}
+	ext := make([]extent, workers)
+	split(workers, len(w), func(t, a, b int) {
+		if a == b {
+			ext[t] = extent{w[0], w[0], true}
+			return
+		}
+		lo, hi, asc := w[a], w[a], true
+		for i := a + 1; i < b; i++ {
+			x := w[i]
+			asc = asc && w[i-1] < x
+			lo, hi = min(lo, x), max(hi, x)
+		}
+		ext[t] = extent{lo, hi, asc}
+	})
+	lo, hi, ascending := ext[0].lo, ext[0].hi, ext[0].ascending
+	for t, e := range ext[1:] {
+		if b := (t + 1) * len(w) / workers; b > 0 && b < len(w) {
+			ascending = ascending && w[b-1] < w[b]
+		}
+		lo, hi, ascending = min(lo, e.lo), max(hi, e.hi), ascending && e.ascending
+	}
+	span := uint64(hi) - uint64(lo) // exact even where hi − lo overflows int64
+	if span/denseSpan >= uint64(len(w)) {
+		return nil
+	}
+	// set holds, per 64 values of the span, the bitmap word and the number
+	// of set bits in the words before: one cache line answers a lookup.
+	set := make(denseSet, span/64+1)
+	if ascending {
+		// Values in order fill one word after another: gather each word's
+		// bits before storing it.
+		at, word := uint64(0), uint64(0)
+		for _, x := range w {
+			b := uint64(x) - uint64(lo)
+			if b>>6 != at {
+				set[at].bits, at, word = word, b>>6, 0
+			}
+			word |= 1 << (b & 63)
+		}
+		set[at].bits = word
+	} else {
+		for _, x := range w {
+			b := uint64(x) - uint64(lo)
+			set[b>>6].bits |= 1 << (b & 63)
+		}
+	}
+	n := 0
+	for i := range set {
+		set[i].before = int64(n)
+		n += bits.OnesCount64(set[i].bits)
+	}
+	if n < len(w) {
+		return nil // a repeated want value: the general join lists them
+	}
+	var order []int32 // want row of each rank; nil when want is ascending
+	if !ascending {
+		order = make([]int32, len(w))
+		for i, x := range w {
+			order[set.rank(uint64(x)-uint64(lo))] = int32(i)
+		}
+	}
+	out := &joined{wantOf: make([]int32, len(g)), wantMore: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
+	lacking := make([]int, workers)
+	split(workers, len(g), func(t, a, b int) {
+		wantOf, none := out.wantOf[a:b], 0
+		for j, x := range g[a:b] {
+			b := uint64(x) - uint64(lo)
+			r := int32(-1)
+			if b <= span && set[b>>6].bits&(1<<(b&63)) != 0 {
+				r = set.rank(b)
+				if order != nil {
+					r = order[r]
+				}
+			}
+			wantOf[j] = r
+			if r < 0 {
+				none++
+			}
+		}
+		lacking[t] = none
+	})
+	total := 0
+	for _, l := range lacking {
+		total += l
+	}
+	if total > denseLacking+len(g)/64 {
+		return nil // grouping got's own values is the general join's work
+	}
+	if total > 1 {
+		first := make(map[int64]int32, total)
+		for j, r := range out.wantOf {
+			if r >= 0 {
+				continue
+			}
+			if f, ok := first[g[j]]; ok {
+				out.gotOnly[f] = append(out.gotOnly[f], int32(j))
+			} else {
+				first[g[j]] = int32(j)
+			}
+		}
+	}
+	return out
+}
+
+// denseWord is 64 values of a dense join's span: which are want's, and
+// how many of want's values lie below them.
+type denseWord struct {
+	bits   uint64
+	before int64
+}
+
+type denseSet []denseWord
+
+// rank returns the rank among want's values of the value at offset b of
+// the span, which must be one of want's.
+func (s denseSet) rank(b uint64) int32 {
+	d := s[b>>6]
+	return int32(d.before) + int32(bits.OnesCount64(d.bits&(1<<(b&63)-1)))
+}
+
+// firstPartners returns, for each of nw want rows, the first got row with
+// its cells (-1 for none, and for want rows that are not first) and the
+// later got rows of each first want row; it sets wantOf of those later
+// rows to -1, so that wantOf names first got rows only.
+func firstPartners(jn *joined, nw int, spare []int32) (first []int32, later map[int32][]int32) {
+	first = spare
+	if len(first) < nw {
+		first = make([]int32, nw)
+	}
+	first = first[:nw]
+	for i := range first {
+		first[i] = -1
+	}
+	later = map[int32][]int32{}
+	for j, i := range jn.wantOf {
+		switch {
+		case i < 0:
+		case first[i] < 0:
+			first[i] = int32(j)
+		default:
+			later[i] = append(later[i], int32(j))
+			jn.wantOf[j] = -1
+		}
+	}
+	return first, later
+}
+
+// pairInOrder pairs the rows of each group in order of appearance: the
+// i-th want row with the i-th got row. It returns each want row's partner
+// (-1 for none) and the later got rows of each first want row, and leaves
+// in jn.wantOf each got row's partner (-1 for none).
+func pairInOrder(jn *joined, nw int) (gOf []int32, later map[int32][]int32) {
+	gOf, later = firstPartners(jn, nw, jn.spare.rows)
+	for head, rows := range later {
+		more := jn.wantMore[head]
+		for t := 0; t < len(rows) && t < len(more); t++ {
+			gOf[more[t]], jn.wantOf[rows[t]] = rows[t], more[t]
+		}
+	}
+	return gOf, later
+}
+
 // matchByKey pairs rows with equal keys, in order of appearance, and
 // reports missing and extra rows and repeated keys.
 func (c *comparison) matchByKey() {
 	nw, ng := c.want.NumRows(), c.got.NumRows()
 	k := newRowKeys(c.keyCols)
 	jn := joinRows(k, nw, ng)
-	gOf, matched := pairInOrder(jn, ng)
+	gOf, later := pairInOrder(jn, nw)
 	c.pairs = pairing{n: nw, g: gOf}
-	if nw*len(c.cols) >= parallelCells && runtime.GOMAXPROCS(0) > 1 {
-		c.reorder = newReorder(gOf, ng, jn.spare)
+	if workers := runtime.GOMAXPROCS(0); nw*len(c.cols) >= parallelCells && workers > 1 {
+		c.reorder = newReorder(jn.wantOf, nw, jn.spare, workers)
 	}
 	for i, gi := range gOf {
 		if gi < 0 {
 			c.addMissing(i)
 		}
 	}
-	for j := 0; j < ng; j++ {
-		if matched[j>>6]&(1<<(uint(j)&63)) == 0 {
+	for j, wi := range jn.wantOf {
+		if wi < 0 {
 			c.addExtra(j)
 		}
 	}
@@ -425,8 +609,8 @@ func (c *comparison) matchByKey() {
 		rows  []int32
 	}
 	var gd []gotDup
-	for h, more := range jn.laterGot {
-		gd = append(gd, gotDup{jn.firstGot[h], append([]int32{jn.firstGot[h]}, more...)})
+	for h, more := range later {
+		gd = append(gd, gotDup{gOf[h], append([]int32{gOf[h]}, more...)})
 	}
 	for first, more := range jn.gotOnly {
 		gd = append(gd, gotDup{first, append([]int32{first}, more...)})
@@ -435,28 +619,6 @@ func (c *comparison) matchByKey() {
 	for _, x := range gd {
 		c.addDuplicate(GotSide, x.rows)
 	}
-}
-
-// pairInOrder pairs the rows of each group in order of appearance: the
-// i-th want row with the i-th got row. It returns each want row's partner
-// (-1 for none) and a bitmap of the paired got rows.
-func pairInOrder(jn *joined, ng int) (gOf []int32, matched []uint64) {
-	gOf = jn.firstGot // taken over: firstGot is not needed afterwards
-	matched = make([]uint64, (ng+63)/64)
-	for _, j := range gOf {
-		if j >= 0 {
-			matched[j>>6] |= 1 << (uint(j) & 63)
-		}
-	}
-	for head, later := range jn.laterGot {
-		more := jn.wantMore[head]
-		for t := 0; t < len(later) && t < len(more); t++ {
-			j := later[t]
-			gOf[more[t]] = j
-			matched[j>>6] |= 1 << (uint(j) & 63)
-		}
-	}
-	return gOf, matched
 }
 
 func sortedKeys(m map[int32][]int32) []int32 {
@@ -514,15 +676,10 @@ func (c *comparison) matchAsMultiset() {
 	jn := joinRows(k, nw, ng)
 	var gOf, gotOf []int32
 	if len(loose) == 0 {
-		var matched []uint64
-		gOf, matched = pairInOrder(jn, ng)
-		gotOf = make([]int32, ng)
-		for j := range gotOf {
-			if matched[j>>6]&(1<<(uint(j)&63)) == 0 {
-				gotOf[j] = -1
-			}
-		}
+		gOf, _ = pairInOrder(jn, nw)
+		gotOf = jn.wantOf
 	} else {
+		first, later := firstPartners(jn, nw, nil)
 		gOf = make([]int32, nw)
 		for i := range gOf {
 			gOf[i] = -1
@@ -539,13 +696,13 @@ func (c *comparison) matchAsMultiset() {
 			}
 			return true
 		}
-		for head, j := range jn.firstGot {
+		for head, j := range first {
 			if j < 0 {
 				continue
 			}
 			h := int32(head)
 			ws := append([]int32{h}, jn.wantMore[h]...)
-			gs := append([]int32{j}, jn.laterGot[h]...)
+			gs := append([]int32{j}, later[h]...)
 			pairGroup(ws, gs, near, loose, gOf, gotOf)
 		}
 	}

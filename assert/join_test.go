@@ -1,0 +1,196 @@
+package assert
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// intKeys returns the matching keys of two int64 key columns holding w and
+// g, as Compare builds them for ByKey.
+func intKeys(t *testing.T, w, g []int64) *rowKeys {
+	t.Helper()
+	build := func(vals []int64) *fixtures.Column {
+		b := fixtures.NewBuilder(fixtures.Schema{fixtures.Col("k", fixtures.Int64)})
+		for _, v := range vals {
+			b.Row(v)
+		}
+		return b.MustBuild(t).Column("k")
+	}
+	wc, gc := build(w), build(g)
+	k := newRowKeys([]*colCmp{newColCmp(newConfig(nil), wc, gc)})
+	require.Equal(t, len(w) > 0, k.wInts != nil)
+	return k
+}
+
+// joinCase builds want and got key values: want holds n distinct values
+// spread over about spread·n, in order or shuffled; got holds most of them
+// shuffled, some twice, plus values want lacks (some twice, some outside
+// want's span).
+func joinCase(rng *rand.Rand, n, spread int, ascending bool) (w, g []int64) {
+	base := int64(rng.IntN(1000)) - 500
+	for range n {
+		base += 1 + int64(rng.IntN(spread))
+		w = append(w, base)
+	}
+	if !ascending {
+		rng.Shuffle(len(w), func(i, j int) { w[i], w[j] = w[j], w[i] })
+	}
+	for _, v := range w {
+		switch rng.IntN(20) {
+		case 0: // missing from got
+		case 1:
+			g = append(g, v, v)
+		default:
+			g = append(g, v)
+		}
+	}
+	for range n/10 + 1 {
+		lacking := w[rng.IntN(n)] + int64(rng.IntN(3)) - 1 // often want's, sometimes in a gap
+		g = append(g, lacking)
+		if rng.IntN(3) == 0 {
+			g = append(g, lacking)
+		}
+	}
+	g = append(g, math.MinInt64, math.MaxInt64, w[0]-1_000_000_000)
+	rng.Shuffle(len(g), func(i, j int) { g[i], g[j] = g[j], g[i] })
+	return w, g
+}
+
+func TestDenseJoinAgreesWithHashJoin(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	for _, n := range []int{1, 2, 7, 64, 65, 1000, 20000} {
+		for _, spread := range []int{1, 3, 15} {
+			for _, ascending := range []bool{true, false} {
+				w, g := joinCase(rng, n, spread, ascending)
+				k := intKeys(t, w, g)
+				for _, workers := range []int{1, 2, 3} {
+					dense := denseJoin(k, workers)
+					require.NotNil(t, dense, "n=%d spread=%d ascending=%v", n, spread, ascending)
+					hashed := hashJoin(k, len(w), len(g), workers)
+					require.Equal(t, hashed.wantOf, dense.wantOf, "n=%d spread=%d ascending=%v workers=%d", n, spread, ascending, workers)
+					require.Equal(t, hashed.wantMore, dense.wantMore)
+					require.Equal(t, hashed.gotOnly, dense.gotOnly)
+				}
+			}
+		}
+	}
+}
+
+func TestDenseJoinFindsEveryPartner(t *testing.T) {
+	// Checked against a plain map from value to first want row.
+	rng := rand.New(rand.NewPCG(13, 14))
+	w, g := joinCase(rng, 5000, 4, false)
+	firstWant := map[int64]int32{}
+	for i, v := range w {
+		if _, ok := firstWant[v]; !ok {
+			firstWant[v] = int32(i)
+		}
+	}
+	jn := denseJoin(intKeys(t, w, g), 2)
+	require.NotNil(t, jn)
+	for j, v := range g {
+		want, ok := firstWant[v]
+		if !ok {
+			want = -1
+		}
+		require.Equal(t, want, jn.wantOf[j], "got row %d value %d", j, v)
+	}
+}
+
+func TestDenseJoinDeclines(t *testing.T) {
+	wide := []int64{0, 1 << 40}
+	repeated := []int64{5, 6, 5}
+	lacking := make([]int64, 0, 2*denseLacking)
+	for i := range 2 * denseLacking {
+		lacking = append(lacking, int64(-i-1)) // none of them want's
+	}
+	cases := []struct {
+		name string
+		w, g []int64
+	}{
+		{"span too wide for the rows", wide, wide},
+		{"want repeats a value", repeated, []int64{5}},
+		{"got lacks too many of want's values", []int64{1, 2, 3}, lacking},
+		{"no want rows", nil, []int64{1}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			require.Nil(t, denseJoin(intKeys(t, c.w, c.g), 1))
+		})
+	}
+}
+
+func TestDenseJoinAtTheEndsOfInt64(t *testing.T) {
+	w := []int64{math.MaxInt64, math.MaxInt64 - 2, math.MaxInt64 - 1}
+	g := []int64{math.MinInt64, math.MaxInt64 - 1, -1, math.MaxInt64, 0, math.MaxInt64 - 3}
+	jn := denseJoin(intKeys(t, w, g), 1)
+	require.NotNil(t, jn)
+	require.Equal(t, []int32{-1, 2, -1, 0, -1, -1}, jn.wantOf)
+	w = []int64{math.MinInt64 + 1, math.MinInt64}
+	jn = denseJoin(intKeys(t, w, []int64{math.MinInt64, math.MaxInt64, math.MinInt64 + 1}), 1)
+	require.NotNil(t, jn)
+	require.Equal(t, []int32{1, -1, 0}, jn.wantOf)
+}
+
+func TestKeyedCompareByEitherJoin(t *testing.T) {
+	// The same rows keyed by dense ids (the bitmap join) and by the same
+	// ids spread far apart (the hash join) differ in the same cells, rows
+	// and repeated keys. Large enough for the parallel, reordered kernels.
+	const n = 70000
+	schema := fixtures.Schema{fixtures.Col("id", fixtures.Int64), fixtures.Col("s", fixtures.String), fixtures.Col("f", fixtures.Float64)}
+	build := func(id func(int) int64) (want, got *fixtures.Table) {
+		wb, gb := fixtures.NewBuilder(schema), fixtures.NewBuilder(schema)
+		for i := range n {
+			wb.Row(id(i), "h"+itoa(i%997), float64(i)/7)
+		}
+		for r := range n {
+			i := (r*7919 + 13) % n
+			s, f := "h"+itoa(i%997), float64(i)/7
+			switch i % 97 {
+			case 1:
+				s += "!"
+			case 2:
+				f += 1
+			case 3:
+				continue // missing
+			case 4:
+				gb.Row(id(i), s, f) // twice
+			}
+			gb.Row(id(i), s, f)
+		}
+		gb.Row(id(n+5), "extra", 0.5)
+		return wb.MustBuild(t), gb.MustBuild(t)
+	}
+	dw, dg := build(func(i int) int64 { return int64(i)*2 + 1 })
+	sw, sg := build(func(i int) int64 { return int64(i)*1_000_003 + 1<<40 })
+	keysOf := func(w, g *fixtures.Table) *rowKeys {
+		return newRowKeys([]*colCmp{newColCmp(newConfig(nil), w.Column("id"), g.Column("id"))})
+	}
+	require.NotNil(t, denseJoin(keysOf(dw, dg), 1), "dense ids take the bitmap join")
+	require.Nil(t, denseJoin(keysOf(sw, sg), 1), "spread ids take the hash join")
+	dense := Compare(dw, dg, ByKey("id"), Tol("f", 0.01, 0))
+	sparse := Compare(sw, sg, ByKey("id"), Tol("f", 0.01, 0))
+	require.Positive(t, dense.CellsDiffering)
+	require.Equal(t, sparse.CellsDiffering, dense.CellsDiffering)
+	require.Equal(t, sparse.RowsDiffering, dense.RowsDiffering)
+	require.Equal(t, sparse.Missing.Count, dense.Missing.Count)
+	require.Equal(t, sparse.Extra.Count, dense.Extra.Count)
+	require.Equal(t, sparse.Duplicates.GotKeys, dense.Duplicates.GotKeys)
+	require.Positive(t, dense.Duplicates.GotKeys)
+	for j := range dense.Cells {
+		require.Equal(t, sparse.Cells[j].Row.Want, dense.Cells[j].Row.Want)
+		require.Equal(t, sparse.Cells[j].Row.Got, dense.Cells[j].Row.Got)
+		require.Equal(t, sparse.Cells[j].Column, dense.Cells[j].Column)
+	}
+	for j := range dense.Extra.Rows {
+		require.Equal(t, sparse.Extra.Rows[j].Got, dense.Extra.Rows[j].Got)
+	}
+	for j := range dense.Duplicates.Keys {
+		require.Equal(t, sparse.Duplicates.Keys[j].Rows, dense.Duplicates.Keys[j].Rows)
+	}
+}
