@@ -289,6 +289,42 @@ func BenchmarkKeyedShuffled(b *testing.B) {
 		"keyed", compareFn(b, ts[0], ts[3], true, keyed...), "x-of-positional")
 }
 
+// spreadKeys returns t with its id column i mapped to i·1000003 + 2⁴⁰:
+// the same pairing, but ids too far apart for the dense join, so that the
+// keyed compare takes the hash join.
+func spreadKeys(t *fixtures.Table) *fixtures.Table {
+	rec := t.Record()
+	defer rec.Release()
+	cols := rec.Columns()
+	j := t.Schema().Index("id")
+	ib := array.NewInt64Builder(memory.NewGoAllocator())
+	for _, v := range t.Column("id").Int64s() {
+		ib.Append(v*1_000_003 + 1<<40)
+	}
+	arrs := append([]arrow.Array(nil), cols...)
+	arrs[j] = ib.NewArray()
+	out, err := fixtures.FromRecord(array.NewRecord(rec.Schema(), arrs, rec.NumRows()))
+	if err != nil {
+		panic(err)
+	}
+	return out
+}
+
+// spreadTables are want and the shuffled copy with spread ids.
+var spreadTables = sync.OnceValue(func() [2]*fixtures.Table {
+	ts := benchTables()
+	return [2]*fixtures.Table{spreadKeys(ts[0]), spreadKeys(ts[3])}
+})
+
+// BenchmarkKeyedShuffledSpreadKeys is BenchmarkKeyedShuffled with ids
+// spread far apart, which the dense join does not take.
+func BenchmarkKeyedShuffledSpreadKeys(b *testing.B) {
+	ts, sp := benchTables(), spreadTables()
+	keyed := append([]Option{ByKey("id")}, benchOpts...)
+	race(b, "positional", compareFn(b, ts[0], ts[1], true, benchOpts...),
+		"keyed", compareFn(b, sp[0], sp[1], true, keyed...), "x-of-positional")
+}
+
 func BenchmarkOnePercentDiffering(b *testing.B) {
 	ts := benchTables()
 	race(b, "equal", compareFn(b, ts[0], ts[1], true, benchOpts...),

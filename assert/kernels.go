@@ -346,6 +346,9 @@ func (cc *colCmp) compare(p pairing, r *colResult, sc *scratch) {
 		return
 	}
 	if cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0 {
+		if p.w == nil && p.g == nil && cc.compareNullableByPosition(p, r, sc) {
+			return
+		}
 		switch cc.class {
 		case classFloat:
 			a, b := cc.wc.Float64s(), cc.gc.Float64s()
@@ -779,12 +782,28 @@ func stringRun(cc *colCmp, aOff []int32, aData []byte, bOff []int32, bData []byt
 	}
 }
 
-// compareCategories compares category columns without nulls by their
-// codes: each side's codes map to ids of the (normalised) level texts, so
-// columns with different level orders compare by text.
+// compareCategories compares category columns by their codes: each
+// side's codes map to ids of the (normalised) level texts, so columns with
+// different level orders compare by text. Columns with nulls are handled
+// for rows paired by position only.
 func (cc *colCmp) compareCategories(p pairing, r *colResult, sc *scratch) {
-	wl, gl := cc.wc.Levels(), cc.gc.Levels()
-	ids := make(map[string]int32, len(wl))
+	wid, gid := cc.levelIDs()
+	w8, w16, w32 := cc.wc.CodeSlices()
+	g8, g16, g32 := cc.gc.CodeSlices()
+	switch {
+	case w8 != nil:
+		compareCodes(cc, w8, g8, g16, g32, wid, gid, p, r, sc)
+	case w16 != nil:
+		compareCodes(cc, w16, g8, g16, g32, wid, gid, p, r, sc)
+	case w32 != nil:
+		compareCodes(cc, w32, g8, g16, g32, wid, gid, p, r, sc)
+	}
+}
+
+// levelIDs numbers the (normalised) level texts of both sides and returns
+// each side's level → id.
+func (cc *colCmp) levelIDs() (wid, gid []int32) {
+	ids := make(map[string]int32, cc.wc.NumLevels())
 	idOf := func(levels []string) []int32 {
 		out := make([]int32, len(levels))
 		for i, l := range levels {
@@ -798,29 +817,19 @@ func (cc *colCmp) compareCategories(p pairing, r *colResult, sc *scratch) {
 		}
 		return out
 	}
-	wid, gid := idOf(wl), idOf(gl)
-	w8, w16, w32 := cc.wc.CodeSlices()
-	g8, g16, g32 := cc.gc.CodeSlices()
-	switch {
-	case w8 != nil:
-		compareCodes(w8, g8, g16, g32, wid, gid, p, r, sc)
-	case w16 != nil:
-		compareCodes(w16, g8, g16, g32, wid, gid, p, r, sc)
-	case w32 != nil:
-		compareCodes(w32, g8, g16, g32, wid, gid, p, r, sc)
-	}
+	return idOf(cc.wc.Levels()), idOf(cc.gc.Levels())
 }
 
 type code interface{ int8 | int16 | int32 }
 
-func compareCodes[A code](a []A, g8 []int8, g16 []int16, g32 []int32, wid, gid []int32, p pairing, r *colResult, sc *scratch) {
+func compareCodes[A code](cc *colCmp, a []A, g8 []int8, g16 []int16, g32 []int32, wid, gid []int32, p pairing, r *colResult, sc *scratch) {
 	switch {
 	case g8 != nil:
-		compareCodePairs(a, g8, wid, gid, p, r, sc)
+		compareCodePairs(cc, a, g8, wid, gid, p, r, sc)
 	case g16 != nil:
-		compareCodePairs(a, g16, wid, gid, p, r, sc)
+		compareCodePairs(cc, a, g16, wid, gid, p, r, sc)
 	case g32 != nil:
-		compareCodePairs(a, g32, wid, gid, p, r, sc)
+		compareCodePairs(cc, a, g32, wid, gid, p, r, sc)
 	}
 }
 
@@ -834,8 +843,30 @@ func identity(ids []int32) bool {
 	return true
 }
 
-func compareCodePairs[A, B code](a []A, b []B, wid, gid []int32, p pairing, r *colResult, sc *scratch) {
+// sameCodes reports whether codes of A and codes of B mean the same level
+// exactly when they are equal: same levels in the same order, same width.
+func sameCodes[A, B code](wid, gid []int32) bool {
+	var a A
+	var b B
+	return unsafe.Sizeof(a) == unsafe.Sizeof(b) && len(wid) <= len(gid) && identity(wid) && identity(gid[:len(wid)])
+}
+
+func compareCodePairs[A, B code](cc *colCmp, a []A, b []B, wid, gid []int32, p pairing, r *colResult, sc *scratch) {
 	switch {
+	case cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0: // rows paired by position
+		same := func(k int) bool { return wid[a[k]] == gid[b[k]] }
+		identical := sameCodes[A, B](wid, gid)
+		cc.nullableRun(p.base, p.base+p.n, func(x, y int) bool {
+			if identical {
+				return bytes.Equal(asBytes(a[x:y]), asBytes(b[x:y]))
+			}
+			for k := x; k < y; k++ {
+				if !same(k) {
+					return false
+				}
+			}
+			return true
+		}, same, r)
 	case p.w == nil && p.g == nil:
 		codeRun(a[p.base:p.base+p.n], b[p.base:p.base+p.n], wid, gid, p.base, nil, r)
 	case sc.reordered(p):
@@ -861,7 +892,7 @@ func codeRun[A, B code](a []A, b []B, wid, gid []int32, base int, gmap []int32, 
 	}
 	// Same levels in the same order and the same code width: codes are
 	// equal exactly when their bytes are.
-	if len(a) > 0 && unsafe.Sizeof(a[0]) == unsafe.Sizeof(b[0]) && len(wid) <= len(gid) && identity(wid) && identity(gid[:len(wid)]) {
+	if len(a) > 0 && sameCodes[A, B](wid, gid) {
 		diffRuns(a, unsafe.Slice((*A)(unsafe.Pointer(unsafe.SliceData(b))), len(b)), check)
 		return
 	}

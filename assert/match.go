@@ -194,6 +194,9 @@ type partitioned struct {
 // partition hashes the n rows of a side twice (once to count, once to
 // place), so no per-row hash array outlives the scatter.
 func partition(k *rowKeys, side Side, n int, bitsP uint) *partitioned {
+	if k.wInts != nil {
+		return partitionInts(pick(side == WantSide, k.wInts, k.gInts), bitsP)
+	}
 	np := 1 << bitsP
 	counts := make([]int, np+1)
 	buf := make([]uint64, min(hashBlock, max(n, 1)))
@@ -224,6 +227,30 @@ func partition(k *rowKeys, side Side, n int, bitsP uint) *partitioned {
 			next[p]++
 			out.h[at], out.row[at] = h, int32(from+i)
 		}
+	}
+	return out
+}
+
+// partitionInts is partition for a single int64 key without nulls, whose
+// hash is mix of the value: each pass is one loop over the values.
+func partitionInts(keys []int64, bitsP uint) *partitioned {
+	np := 1 << bitsP
+	shift := 64 - bitsP // a shift by 64 gives 0: one partition
+	counts := make([]int, np+1)
+	for _, x := range keys {
+		counts[mix(uint64(x))>>shift+1]++
+	}
+	for p := 1; p <= np; p++ {
+		counts[p] += counts[p-1]
+	}
+	out := &partitioned{h: make([]uint64, len(keys)), row: make([]int32, len(keys)), start: append([]int(nil), counts...)}
+	next := counts[:np]
+	for i, x := range keys {
+		h := mix(uint64(x))
+		p := h >> shift
+		at := next[p]
+		next[p] = at + 1
+		out.h[at], out.row[at] = h, int32(i)
 	}
 	return out
 }
