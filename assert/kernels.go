@@ -345,10 +345,11 @@ func (cc *colCmp) compare(p pairing, r *colResult, sc *scratch) {
 	if p.n == 0 {
 		return
 	}
-	if cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0 {
-		if p.w == nil && p.g == nil && cc.compareNullableByPosition(p, r, sc) {
-			return
-		}
+	nulls := cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0
+	if p.w == nil && p.g == nil && (nulls || cc.class == classBool) && cc.compareNullableByPosition(p, r, sc) {
+		return
+	}
+	if nulls {
 		switch cc.class {
 		case classFloat:
 			a, b := cc.wc.Float64s(), cc.gc.Float64s()

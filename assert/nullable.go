@@ -13,7 +13,8 @@ import (
 // equal as a whole (null with null, and identical values are equal under
 // every rule); only the rows of other runs are looked at one by one.
 
-// validity is a column's validity bitmap (nil: no nulls) and bit offset.
+// validity is a column's validity bitmap (nil: no nulls) and bit offset;
+// it also serves to read a bool column's values.
 type validity struct {
 	bits []byte
 	off  int
@@ -21,6 +22,12 @@ type validity struct {
 
 func validityOf(col *fixtures.Column) validity {
 	b, off := col.ValidBits()
+	return validity{b, off}
+}
+
+// boolBits views a bool column's values as a bitmap.
+func boolBits(col *fixtures.Column) validity {
+	b, off := col.BoolBits()
 	return validity{b, off}
 }
 
@@ -77,11 +84,19 @@ func (cc *colCmp) nullableRun(lo, hi int, rawEqual func(a, b int) bool, rawSame 
 	}
 }
 
-// compareNullableByPosition is compare for columns with nulls and rows
-// paired by position; it reports false for the kinds it does not handle.
+// compareNullableByPosition is compare for rows paired by position in
+// columns with nulls, and in bool columns; it reports false for the kinds
+// it does not handle.
 func (cc *colCmp) compareNullableByPosition(p pairing, r *colResult, sc *scratch) bool {
 	lo, hi := p.base, p.base+p.n
 	switch cc.class {
+	case classBool:
+		wb, gb := boolBits(cc.wc), boolBits(cc.gc)
+		nw, ng := cc.wc.Len(), cc.gc.Len()
+		cc.nullableRun(lo, hi, func(x, y int) bool {
+			mask := ^uint64(0) >> uint(64-(y-x))
+			return wb.word(x, nw)&mask == gb.word(x, ng)&mask
+		}, func(k int) bool { return cc.wc.Bool(k) == cc.gc.Bool(k) }, r)
 	case classFloat:
 		a, b := cc.wc.Float64s(), cc.gc.Float64s()
 		cc.nullableRun(lo, hi, func(x, y int) bool { return bytes.Equal(asBytes(a[x:y]), asBytes(b[x:y])) },

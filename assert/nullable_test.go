@@ -41,13 +41,14 @@ func TestValidityWord(t *testing.T) {
 }
 
 // nullTablePair returns two tables of n rows with a column of every kind,
-// nulls in both, the same cells mostly and some differing (values, nulls
+// nulls in both (but for one bool column), the same cells mostly and some differing (values, nulls
 // on one side only, NaN, −0), sliced from a larger table so that the
 // validity bitmaps start at a bit offset.
 func nullTablePair(t *testing.T, rng *rand.Rand, n int) (want, got *fixtures.Table) {
 	schema := fixtures.Schema{
 		fixtures.Col("f", fixtures.Float64), fixtures.Col("i", fixtures.Int64), fixtures.Col("d", fixtures.Date),
 		fixtures.Col("ts", fixtures.TimestampOf(fixtures.Millis, "")), fixtures.Col("s", fixtures.String), fixtures.Col("c", fixtures.Category),
+		fixtures.Col("b", fixtures.Bool), fixtures.Col("flag", fixtures.Bool), // flag has no nulls
 	}
 	day := time.Date(2026, 4, 1, 0, 0, 0, 0, time.UTC)
 	levels := []string{"ok", "fault", "calibrating"}
@@ -69,21 +70,26 @@ func nullTablePair(t *testing.T, rng *rand.Rand, n int) (want, got *fixtures.Tab
 			return day.Add(time.Duration(i) * time.Minute)
 		case 4:
 			return "h" + itoa(i%97)
+		case 5:
+			return levels[i%3]
 		}
-		return levels[i%3]
+		return i%3 == 0
 	}
 	wb, gb := fixtures.NewBuilder(schema), fixtures.NewBuilder(schema)
 	for i := range n + 5 {
 		var wr, gr []any
 		for col := range schema {
 			w := cell(col, i)
-			if rng.IntN(9) == 0 {
+			noNulls := schema[col].Name == "flag"
+			if rng.IntN(9) == 0 && !noNulls {
 				w = nil
 			}
 			g := w
 			switch rng.IntN(40) {
 			case 0:
-				g = nil // null on one side only (or on both)
+				if !noNulls {
+					g = nil // null on one side only (or on both)
+				}
 			case 1:
 				if w == nil {
 					g = cell(col, i)
