@@ -7,7 +7,9 @@
 // and extra rows, repeated keys, differing cells with their distances, and
 // per-column summaries. Tables and MustMatch wrap it for tests. A Diff
 // renders as plain text for test failures and terminals (Text, TextWith),
-// as Markdown for reviewers (Markdown) and as JSON for tools (JSON); its
+// as Markdown for reviewers (Markdown), as JSON for tools (JSON) and as an
+// HTML fragment for a review page (HTML), with every table text escaped
+// and each differing cell marked with the class HTMLChangedCell; its
 // exported fields serve any other renderer.
 //
 // # Typical use
@@ -71,8 +73,12 @@
 // # Speed
 //
 // Cells are compared over the tables' Arrow buffers without copying them,
-// in bulk where the raw bytes agree, with columns (and ranges of rows) on
-// all processors. ByKey hashes the key columns once and joins rows in
-// cache-sized partitions. The benchmarks in bench_test.go measure this
-// against Arrow's array.ApproxEqual and testify in the same run.
+// in bulk where the raw bytes (and validity bits) agree, with columns (and
+// ranges of rows) on all processors. ByKey joins a single int64 key with
+// dense values (ids, row numbers) through a bitmap of want's values, and
+// other keys by hashing the key columns and joining rows in cache-sized
+// partitions; got's cells are then brought into want's order range by
+// range, through buffers that stay in cache. The benchmarks in
+// bench_test.go measure this against Arrow's array.ApproxEqual and testify
+// in the same run.
 package assert
