@@ -25,27 +25,44 @@ import (
 //	go test ./assert -run '^$' -bench . -benchtime 5x
 //
 // x-vs-arrow   Arrow's array.ApproxEqual time / ours (target ≥ 5)
-// x-vs-memcmp  bytes.Equal over all buffers on one goroutine / ours
+// x-vs-memcmp  bytes.Equal over all buffers, on one goroutine
+//              (PositionalVsMemcmp) or on all (…BothCores) / ours
 // x-vs-testify testify's InDeltaSlice + ObjectsAreEqual time / ours (≥ 100)
-// x-of-positional keyed compare of shuffled rows / positional (≤ 10)
+// x-of-positional keyed compare of shuffled rows / positional (≤ 10); the
+//              ids 7i+3 take the dense-key join, the same ids spread
+//              apart (…SpreadKeys) the hash join
 // x-of-equal   compare with 1 % of cells differing / equal tables (≤ 2)
 // alloc-%      heap allocated by one compare / the tables' buffer bytes (≤ 25)
 //
-// Measured on the shared 2-core machine (load average 2–5 from other
-// work), go test ./assert -run '^$' -bench . -benchtime 5x -count 3:
+// Measured on the 2-core machine with no other helper running (its
+// timings still drift by up to 1.5× between runs minutes apart),
+// go test ./assert -run '^$' -bench . -benchtime 5x -count 3:
 //
-//	positional, equal tables      6.3–7.5 ms; Arrow 60–74 ms: 9.5–9.8×
-//	memcmp floor                  ours 6.1–7.1 ms vs memcmp 6.2–6.9 ms: 1.0×
-//	testify                       ours 5.3–8.3 ms vs 331–386 ms: 46–66×
-//	keyed, shuffled               97–106 ms: 12.7–14.0× the positional time
-//	1 % of cells differing        1.40–1.65× the equal case
+//	positional, equal tables      5.3–7.4 ms; Arrow 91–105 ms: 14.3–15.2×
+//	memcmp on one goroutine       7.0–8.3 ms: ours 1.20–1.32× faster
+//	memcmp on both cores          4.3–5.4 ms: ours within 2–16 % of it
+//	testify                       ours 5.3–7.1 ms vs 423–487 ms: 61–92×
+//	keyed, shuffled (dense ids)   48–54 ms: 8.0–10.2× the positional time
+//	keyed, shuffled, spread ids   62–73 ms: 10.1–15.1×
+//	1 % of cells differing        1.50–1.68× the equal case
 //	heap per compare              positional 0.016 %, 1 % differing 1.6 %,
-//	                              keyed 21.6 % of the 138 MB of buffers
+//	                              keyed 19.5 % (spread ids 21.4 %) of the
+//	                              138 MB of buffers
 //
-// The positional compare runs at the speed of a memory comparison of all
-// buffers, so the testify ratio is bound by memory bandwidth; the keyed
-// compare spends its time in the key join and in moving got's cells into
-// want's order.
+// Minutes before, the same command on the code before the dense-key join
+// and the bulk null, bool and reorder changes gave keyed 71–87 ms
+// (13.1–15.3×) and heap 21.6 %.
+//
+// The positional compare runs at the speed of bytes.Equal over all
+// buffers on both cores: it reads each of the 138 MB once, and this
+// machine's two cores read about 26–32 GB/s, so the equal-tables compare
+// cannot take much under 4.5 ms; the testify ratio is capped near
+// testify's time / 4.5 ms, 95–105× here, and 100× is out of reach in
+// practice. The keyed compare spends about a quarter of its time joining
+// and pairing (dense ids: bitmap ranks; spread ids: partitioned hash
+// tables, about three times slower) and the rest moving got's cells into
+// want's order range by range, which reads got's columns once per range;
+// the string column alone takes a third.
 
 const benchRows = 1 << 20
 
