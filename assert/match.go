@@ -420,9 +420,10 @@ func (k *rowKeys) same(a Side, i int, b Side, j int) bool {
 // and spread over at most denseSpan values per want row (row numbers,
 // serial ids) is joined without hashing or partitioning, through a bitmap
 // of want's values and the count of set bits before each word: together
-// they give every value its rank among want's values. The bitmap costs an
-// eighth of a byte per value of the span and is read at random, which pays
-// while it stays about the size of the cache.
+// they give every value its rank among want's values. The two take a
+// quarter of a byte per value of the span (at most 4 bytes a want row) and
+// are read at random, which pays while they stay about the size of the
+// cache.
 
 // denseSpan bounds the spread of want's key values, per want row, for the
 // dense join.
@@ -555,6 +556,7 @@ type denseWord struct {
 	before int64
 }
 
+// denseSet is a dense join's span, 64 values a word.
 type denseSet []denseWord
 
 // rank returns the rank among want's values of the value at offset b of
