@@ -1,17 +1,3 @@
-// Command proofsheet gives proofsheet's table comparison, golden-file
-// review, raw-file profiling and mess generation to chains written in any
-// language.
-//
-// Usage:
-//
-//	proofsheet profile FILE... [--json]
-//	proofsheet diff [--key COLS] [--tol SPEC]... [--format F] WANT GOT
-//	proofsheet review [--base REV | --records DIR] [--format F] [PATH...]
-//	proofsheet gen --schema FILE [--rows N] [--seed N] [--mess LEVEL] [--out FILE]
-//	proofsheet help [COMMAND]
-//
-// Exit status follows POSIX diff: 0 no difference, 1 differences, 2 trouble
-// (bad input, usage).
 package main
 
 import (

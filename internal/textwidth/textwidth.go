@@ -1,6 +1,3 @@
-// Package textwidth measures how many terminal columns a string takes, so
-// that the aligned layouts of fixtures and assert line up with accented,
-// East Asian and combining text.
 package textwidth
 
 import (
