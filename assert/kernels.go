@@ -36,12 +36,6 @@ func (p pairing) at(k int) (wi, gi int) {
 	return wi, gi
 }
 
-// slotAt returns the slot number of global slot s, for rendering: the
-// want and got rows it pairs.
-func (p pairing) slotAt(s int) (wi, gi int) {
-	return p.sub(s, s+1).at(0)
-}
-
 // sub returns slots [lo, hi) of p (lo and hi are global slot numbers).
 func (p pairing) sub(lo, hi int) pairing {
 	q := pairing{base: lo, n: hi - lo}

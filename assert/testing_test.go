@@ -6,7 +6,6 @@ import (
 
 	tfassert "github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
-	tfrequire "github.com/stretchr/testify/require"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -73,7 +72,7 @@ func TestTestingTFitsTheUsualTypes(t *testing.T) {
 	// testify's interfaces: anything that satisfies them satisfies ours.
 	var tfa tfassert.TestingT = &errorsOnly{}
 	var _ TestingT = tfa
-	var tfr tfrequire.TestingT = &recorder{}
+	var tfr require.TestingT = &recorder{}
 	var _ StopT = tfr
 }
 

@@ -114,11 +114,11 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 		}
 		spec.Schema = append(spec.Schema, fixtures.Col(cname, typ))
 		for _, opt := range toks[2:] {
-			key, val, ok := strings.Cut(opt.text, "=")
+			key, _, ok := strings.Cut(opt.text, "=")
 			if opt.quoted || !ok {
 				return nil, fail(opt, "want an option KEY=VALUE, got %q", opt.text)
 			}
-			val = opt.value
+			val := opt.value
 			switch key {
 			case "levels":
 				if typ.Kind() != fixtures.KindCategory {
