@@ -95,6 +95,7 @@ func runDemo(e *env, c *command, args []string) int {
 	if err != nil {
 		return trouble(e, c, "the chain failed: %v", err)
 	}
+	kept, dropped := greenhouse.Readings(report)
 	readings := 0
 	for _, u := range uploads {
 		readings += u.NumRows()
@@ -102,7 +103,7 @@ func runDemo(e *env, c *command, args []string) int {
 	say("Clean types each reading (two time spellings, °F to °C, -999 and ERR as faults,\n"+
 		"re-uploads as duplicates); Daily groups by house and day. %d readings in,\n"+
 		"%d kept, %d dropped; growing degree days by the averaging method, base 10 °C:\n\n",
-		readings, sumColumn(report, "kept"), sumColumn(report, "dropped"))
+		readings, kept, dropped)
 	say("%s", indent(report.Literal(), "  "))
 
 	// 3. Check it against its golden file.
@@ -209,15 +210,6 @@ func indent(s, prefix string) string {
 		b.WriteString(l)
 	}
 	return b.String()
-}
-
-func sumColumn(t *fixtures.Table, name string) int64 {
-	c := t.Column(name)
-	var n int64
-	for i := 0; i < c.Len(); i++ {
-		n += c.Int64(i)
-	}
-	return n
 }
 
 // demoT collects what property.Check reports, for the demo to print.

@@ -103,6 +103,26 @@ func (o Options) decimals() int {
 // lowest temperature is kept, the others are marked duplicate, so the
 // result does not depend on the order of the rows.
 func Clean(raw *fixtures.Table) (*fixtures.Table, error) {
+	rs, err := readReadings(raw)
+	if err != nil {
+		return nil, err
+	}
+	markDuplicates(rs)
+	return buildReadings(rs)
+}
+
+// reading is one row of an upload, typed.
+type reading struct {
+	house  string
+	at     int64 // Unix seconds of the logger's wall clock
+	atOK   bool
+	temp   float64 // °C
+	status string
+}
+
+// readReadings types the rows of one upload (or of Clean's output) and
+// marks times and temperatures that cannot be read.
+func readReadings(raw *fixtures.Table) ([]reading, error) {
 	if raw == nil {
 		return nil, fmt.Errorf("greenhouse: nil table")
 	}
@@ -121,16 +141,8 @@ func Clean(raw *fixtures.Table) (*fixtures.Table, error) {
 	if tempCol == nil {
 		return nil, fmt.Errorf("greenhouse: want a column \"temp_c\" or \"temp_f\" (columns: %s)", strings.Join(raw.Names(), ", "))
 	}
-	n := raw.NumRows()
-	type reading struct {
-		house  string
-		at     int64
-		atOK   bool
-		temp   float64
-		status string
-	}
-	rs := make([]reading, n)
-	for i := 0; i < n; i++ {
+	rs := make([]reading, raw.NumRows())
+	for i := range rs {
 		r := &rs[i]
 		if !house.IsNull(i) {
 			r.house = cleanName(house.Str(i))
@@ -149,24 +161,41 @@ func Clean(raw *fixtures.Table) (*fixtures.Table, error) {
 			r.temp, r.status = t, StatusOK
 		}
 	}
-	// Among usable readings of the same house and time, keep the lowest.
-	best := map[string]int{}
+	return rs, nil
+}
+
+// markDuplicates keeps, among the usable readings of the same house and
+// time, the lowest, and marks the others duplicate; readings already
+// marked duplicate compete again, so a second pass changes nothing.
+func markDuplicates(rs []reading) {
+	type stamp struct {
+		house string
+		at    int64
+	}
+	best := map[stamp]int{}
 	for i := range rs {
+		if rs[i].status == StatusDuplicate {
+			rs[i].status = StatusOK
+		}
 		if rs[i].status != StatusOK {
 			continue
 		}
-		k := rs[i].house + "\x00" + strconv.FormatInt(rs[i].at, 10)
-		if j, seen := best[k]; seen {
-			if rs[i].temp < rs[j].temp {
-				rs[j].status = StatusDuplicate
-				best[k] = i
-			} else {
-				rs[i].status = StatusDuplicate
-			}
-			continue
+		k := stamp{rs[i].house, rs[i].at}
+		j, seen := best[k]
+		switch {
+		case !seen:
+			best[k] = i
+		case rs[i].temp < rs[j].temp:
+			rs[j].status = StatusDuplicate
+			best[k] = i
+		default:
+			rs[i].status = StatusDuplicate
 		}
-		best[k] = i
 	}
+}
+
+// buildReadings makes Clean's table from typed readings.
+func buildReadings(rs []reading) (*fixtures.Table, error) {
 	b := fixtures.NewBuilder(readingsSchema).Levels("status", StatusOK, StatusFault, StatusBadTime, StatusDuplicate)
 	for _, r := range rs {
 		var at, temp any
@@ -383,31 +412,28 @@ func RoundRat(r *big.Rat, d int) float64 {
 	return f
 }
 
-// Report is the whole chain: it cleans each upload, puts the readings
-// together and returns the daily report.
+// Report is the whole chain: it types the readings of every upload, marks
+// re-uploads among them all, and returns the daily report.
 func Report(uploads []*fixtures.Table, opt Options) (*fixtures.Table, error) {
 	if len(uploads) == 0 {
 		return nil, fmt.Errorf("greenhouse: no uploads")
 	}
-	cleaned := make([]*fixtures.Table, len(uploads))
+	var all []reading
 	for i, u := range uploads {
-		c, err := Clean(u)
+		rs, err := readReadings(u)
 		if err != nil {
 			return nil, fmt.Errorf("upload %d: %w", i+1, err)
 		}
-		cleaned[i] = c
-	}
-	all, err := fixtures.Concat(cleaned...)
-	if err != nil {
-		return nil, err
+		all = append(all, rs...)
 	}
 	// Duplicates can also span uploads (a logger re-sending yesterday's
-	// file), so clean the whole again: Clean is idempotent.
-	all, err = Clean(all)
+	// file), so they are found over all the readings at once.
+	markDuplicates(all)
+	readings, err := buildReadings(all)
 	if err != nil {
 		return nil, err
 	}
-	return Daily(all, opt)
+	return Daily(readings, opt)
 }
 
 // Load reads one upload as text, the way the chain wants it: the loader

@@ -54,10 +54,6 @@ func OneUpload(raw *fixtures.Table) (*fixtures.Table, error) {
 	return Report([]*fixtures.Table{raw}, Options{})
 }
 
-// reportCompare compares two daily reports: by house and day, floats
-// within the golden tolerance.
-func reportCompare() []assert.Option { return GoldenOptions() }
-
 // CleanInvariants are what Clean must keep on any upload.
 func CleanInvariants() []property.Invariant {
 	return []property.Invariant{
@@ -75,27 +71,28 @@ func CleanInvariants() []property.Invariant {
 func ReportInvariants() []property.Invariant {
 	return []property.Invariant{
 		property.NoPanic(),
-		property.OrderFree(reportCompare()...),
-		property.SameOnPlain(reportCompare()...),
+		property.OrderFree(GoldenOptions()...),
+		property.SameOnPlain(GoldenOptions()...),
 		property.Holds("kept + dropped = readings in", func(s *property.Sample, out *fixtures.Table) error {
 			in := s.Raw().NumRows()
-			if got := columnSum(out, "kept") + columnSum(out, "dropped"); got != in {
-				return fmt.Errorf("kept + dropped = %d, want %d readings in", got, in)
+			if kept, dropped := Readings(out); kept+dropped != in {
+				return fmt.Errorf("kept + dropped = %d, want %d readings in", kept+dropped, in)
 			}
 			return nil
 		}),
-		property.MatchesClean(Reference, append(reportCompare(), assert.IgnoreColumns("dropped"))...),
+		property.MatchesClean(Reference, append(GoldenOptions(), assert.IgnoreColumns("dropped"))...),
 	}
 }
 
-// columnSum adds up an int64 column.
-func columnSum(t *fixtures.Table, col string) int {
-	c := t.Column(col)
-	n := 0
-	for i := 0; i < c.Len(); i++ {
-		n += int(c.Int64(i))
+// Readings returns the readings a daily report accounts for: how many
+// were kept and how many dropped, over all its rows.
+func Readings(report *fixtures.Table) (kept, dropped int) {
+	k, d := report.Column("kept"), report.Column("dropped")
+	for i := 0; i < report.NumRows(); i++ {
+		kept += int(k.Int64(i))
+		dropped += int(d.Int64(i))
 	}
-	return n
+	return kept, dropped
 }
 
 // Reference computes the daily report from a clean, typed table in the
