@@ -8,7 +8,6 @@ import (
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
-	"github.com/sergi/go-diff/diffmatchpatch"
 )
 
 // ReviewStatus says what became of one golden file between two versions.
@@ -358,25 +357,10 @@ const reviewMaxLines = textDiffMaxLines
 // textContext unchanged lines around them, as TextDiff groups them.
 func reviewLines(old, cur string) (lines []ReviewLine, added, removed int) {
 	ops := lineOps(old, cur)
-	var changed []int
-	for i, op := range ops {
-		switch op.op {
-		case diffmatchpatch.DiffDelete:
-			removed++
-		case diffmatchpatch.DiffInsert:
-			added++
-		default:
-			continue
-		}
-		changed = append(changed, i)
-	}
+	changed, removed, added := changedOps(ops)
 	last := -1 // the last op listed
-	for i := 0; i < len(changed); {
-		j := i
-		for j+1 < len(changed) && changed[j+1]-changed[j] <= 2*textContext+1 {
-			j++
-		}
-		from, to := max(0, changed[i]-textContext), min(len(ops)-1, changed[j]+textContext)
+	for _, h := range hunks(changed, len(ops)) {
+		from, to := h[0], h[1]
 		if from > last+1 {
 			lines = append(lines, ReviewLine{Mark: '…', Text: fmt.Sprintf("%d unchanged line(s)", from-last-1)})
 		}
@@ -386,17 +370,9 @@ func reviewLines(old, cur string) (lines []ReviewLine, added, removed int) {
 				return lines, added, removed
 			}
 			op := ops[k]
-			mark := ' '
-			switch op.op {
-			case diffmatchpatch.DiffDelete:
-				mark = '-'
-			case diffmatchpatch.DiffInsert:
-				mark = '+'
-			}
-			lines = append(lines, ReviewLine{Mark: mark, Old: op.a, New: op.b, Text: showLine(op)})
+			lines = append(lines, ReviewLine{Mark: rune(op.mark()), Old: op.a, New: op.b, Text: showLine(op)})
 		}
 		last = to
-		i = j + 1
 	}
 	if last >= 0 && last < len(ops)-1 {
 		lines = append(lines, ReviewLine{Mark: '…', Text: fmt.Sprintf("%d unchanged line(s)", len(ops)-1-last)})

@@ -105,19 +105,7 @@ func TextDiff(want, got string) string {
 		return ""
 	}
 	ops := lineOps(want, got)
-	var changed []int
-	dels, ins := 0, 0
-	for i, op := range ops {
-		switch op.op {
-		case diffmatchpatch.DiffDelete:
-			dels++
-		case diffmatchpatch.DiffInsert:
-			ins++
-		default:
-			continue
-		}
-		changed = append(changed, i)
-	}
+	changed, dels, ins := changedOps(ops)
 	maxA, maxB := 1, 1
 	for _, op := range ops {
 		maxA, maxB = max(maxA, op.a), max(maxB, op.b)
@@ -126,13 +114,8 @@ func TextDiff(want, got string) string {
 	var sb strings.Builder
 	fmt.Fprintf(&sb, "%d line(s) only in want (-), %d only in got (+):\n", dels, ins)
 	listed := 0
-	for i := 0; i < len(changed); {
-		// a group: changes closer than 2×context lines apart
-		j := i
-		for j+1 < len(changed) && changed[j+1]-changed[j] <= 2*textContext+1 {
-			j++
-		}
-		from, to := max(0, changed[i]-textContext), min(len(ops)-1, changed[j]+textContext)
+	for _, h := range hunks(changed, len(ops)) {
+		from, to := h[0], h[1]
 		fmt.Fprintf(&sb, "want %s, got %s:\n", lineRange(ops[from:to+1], true), lineRange(ops[from:to+1], false))
 		for k := from; k <= to; k++ {
 			if listed == textDiffMaxLines {
@@ -146,19 +129,55 @@ func TextDiff(want, got string) string {
 				return sb.String()
 			}
 			op := ops[k]
-			mark := " "
-			switch op.op {
-			case diffmatchpatch.DiffDelete:
-				mark = "-"
-			case diffmatchpatch.DiffInsert:
-				mark = "+"
-			}
-			fmt.Fprintf(&sb, "%*s %*s %s  %s\n", wa, lineNo(op.a), wb, lineNo(op.b), mark, showLine(op))
+			fmt.Fprintf(&sb, "%*s %*s %c  %s\n", wa, lineNo(op.a), wb, lineNo(op.b), op.mark(), showLine(op))
 			listed++
 		}
-		i = j + 1
 	}
 	return sb.String()
+}
+
+// changedOps returns the indexes of the inserted and deleted lines of
+// ops, and how many of each there are.
+func changedOps(ops []lineOp) (changed []int, dels, ins int) {
+	for i, op := range ops {
+		switch op.op {
+		case diffmatchpatch.DiffDelete:
+			dels++
+		case diffmatchpatch.DiffInsert:
+			ins++
+		default:
+			continue
+		}
+		changed = append(changed, i)
+	}
+	return changed, dels, ins
+}
+
+// hunks groups changed op indexes into [from, to] spans of ops with
+// textContext unchanged lines around them; changes closer than twice the
+// context share a span.
+func hunks(changed []int, n int) [][2]int {
+	var out [][2]int
+	for i := 0; i < len(changed); {
+		j := i
+		for j+1 < len(changed) && changed[j+1]-changed[j] <= 2*textContext+1 {
+			j++
+		}
+		out = append(out, [2]int{max(0, changed[i]-textContext), min(n-1, changed[j]+textContext)})
+		i = j + 1
+	}
+	return out
+}
+
+// mark is the line's sign in a diff: - deleted, + inserted, blank kept.
+func (op lineOp) mark() byte {
+	switch op.op {
+	case diffmatchpatch.DiffDelete:
+		return '-'
+	case diffmatchpatch.DiffInsert:
+		return '+'
+	}
+	return ' '
 }
 
 func lineNo(n int) string {
