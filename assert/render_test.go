@@ -179,6 +179,12 @@ func TestUseColor(t *testing.T) {
 	defer f.Close()
 	require.False(t, UseColor(f), "a regular file is not a terminal")
 	require.False(t, UseColor(nil))
+	// Source: POSIX isatty() — /dev/null is a character device, not a
+	// terminal.
+	dev, err := os.OpenFile(os.DevNull, os.O_WRONLY, 0)
+	require.NoError(t, err)
+	defer dev.Close()
+	require.False(t, UseColor(dev), "/dev/null is not a terminal")
 	t.Setenv("NO_COLOR", "1")
 	// Source: no-color.org — when NO_COLOR is present and not empty,
 	// output carries no ANSI colour.

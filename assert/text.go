@@ -8,6 +8,8 @@ import (
 	"strings"
 	"time"
 
+	"golang.org/x/term"
+
 	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
@@ -463,15 +465,14 @@ func fitWidths(widths []int, total int) bool {
 }
 
 // UseColor reports whether text written to f should be coloured: f is a
-// terminal (a character device) and the NO_COLOR environment variable is
-// unset or empty (the convention of no-color.org). Pass the answer as
-// TextStyle.Color.
+// terminal (golang.org/x/term; a character device such as /dev/null is
+// not) and the NO_COLOR environment variable is unset or empty (the
+// convention of no-color.org). Pass the answer as TextStyle.Color.
 func UseColor(f *os.File) bool {
 	if f == nil || os.Getenv("NO_COLOR") != "" {
 		return false
 	}
-	fi, err := f.Stat()
-	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+	return term.IsTerminal(int(f.Fd()))
 }
 
 // wrap breaks s at spaces into lines of at most width columns; lines after

@@ -8,19 +8,21 @@ import (
 	"strings"
 	"time"
 
+	"golang.org/x/term"
+
 	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
-// isTerminal reports whether w is a terminal: an *os.File that is a
-// character device.
+// isTerminal reports whether w is a terminal: an *os.File whose
+// descriptor answers the terminal control requests (golang.org/x/term).
+// A character device that is not a terminal, such as /dev/null, is not.
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
 	if !ok || f == nil {
 		return false
 	}
-	fi, err := f.Stat()
-	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+	return term.IsTerminal(int(f.Fd()))
 }
 
 // useColor reports whether text for w may carry ANSI colours: w is a

@@ -15,25 +15,30 @@ func TestTerminalAndColour(t *testing.T) {
 	file, err := os.Create(filepath.Join(t.TempDir(), "out.txt"))
 	require.NoError(t, err)
 	defer file.Close()
-	// Source: Go os package docs — ModeCharDevice is set for Unix
-	// character devices, as /dev/null is; a regular file has no mode bits.
+	// Source: POSIX isatty() — true only for a terminal device. /dev/null
+	// is a character device but not a terminal, so no colour and no
+	// progress bar go there.
 	dev, err := os.OpenFile(os.DevNull, os.O_WRONLY, 0)
 	require.NoError(t, err)
 	defer dev.Close()
+	tty := openPTY(t)
 	require.False(t, isTerminal(file))
 	require.False(t, isTerminal(&bytes.Buffer{}))
-	require.True(t, isTerminal(dev))
+	require.False(t, isTerminal(dev), "/dev/null is not a terminal")
+	require.True(t, isTerminal(tty), "a pseudo-terminal is one")
 
 	vars := map[string]string{}
-	e := &env{stdout: dev, stderr: dev, getenv: func(k string) string { return vars[k] }}
-	require.True(t, useColor(e, dev))
+	e := &env{stdout: tty, stderr: tty, getenv: func(k string) string { return vars[k] }}
+	require.True(t, useColor(e, tty))
+	require.False(t, useColor(e, dev))
 	require.False(t, useColor(e, file))
+	require.Nil(t, newProgress(&env{stderr: dev}, false), "no bar into /dev/null")
 	// Source: no-color.org — a NO_COLOR that is present and not empty
 	// turns colour off, whatever its value.
 	vars["NO_COLOR"] = "1"
-	require.False(t, useColor(e, dev))
+	require.False(t, useColor(e, tty))
 
-	require.NotNil(t, newProgress(e, false), "a bar on a character device")
+	require.NotNil(t, newProgress(e, false), "a bar on a terminal")
 	require.Nil(t, newProgress(e, true), "none with --quiet")
 	require.Nil(t, newProgress(&env{stderr: file}, false), "none into a file")
 	var nilBar *progress

@@ -1,6 +1,8 @@
 // Package textwidth measures how many terminal columns a string takes, so
 // that the aligned layouts of fixtures and assert line up with accented,
-// East Asian and combining text.
+// East Asian and combining text and with emoji (modifiers, ZWJ sequences,
+// flags and variation selectors): it measures grapheme clusters with
+// github.com/rivo/uniseg.
 //
 // Typical use:
 //

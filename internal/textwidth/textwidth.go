@@ -2,42 +2,31 @@ package textwidth
 
 import (
 	"strings"
-	"unicode"
-	"unicode/utf8"
 
-	"golang.org/x/text/width"
+	"github.com/rivo/uniseg"
 )
 
-// Width returns the number of monospace columns s occupies: East Asian wide
-// and fullwidth characters count 2 (Unicode Standard Annex #11), combining
-// marks and zero-width format characters count 0, everything else 1. An
-// invalid UTF-8 byte counts 1.
+// Width returns the number of monospace terminal columns s occupies. It
+// walks s by grapheme clusters (Unicode Standard Annex #29), so a letter
+// with combining marks, an emoji with a skin-tone modifier, a flag (two
+// regional indicators) and a zero-width-joiner sequence each count as one
+// character, and gives each cluster its East Asian width (Annex #11): wide
+// and fullwidth characters and emoji shown as emoji count 2 columns, a
+// variation selector 16 turns a text-style pictograph into a 2-column
+// emoji (and selector 15 back into 1), control and format characters count
+// 0, everything else 1. An invalid UTF-8 byte counts 1.
+//
+// The measuring is github.com/rivo/uniseg's, whose tables follow the
+// Unicode version it was built for.
 func Width(s string) int {
 	n := 0
-	for i := 0; i < len(s); {
-		r, size := utf8.DecodeRuneInString(s[i:])
-		i += size
-		n += RuneWidth(r)
+	state := -1
+	for s != "" {
+		var w int
+		_, s, w, state = uniseg.FirstGraphemeClusterInString(s, state)
+		n += w
 	}
 	return n
-}
-
-// RuneWidth returns the number of monospace columns r occupies.
-func RuneWidth(r rune) int {
-	switch {
-	case r < 0x300:
-		if r < 0x20 || (r >= 0x7f && r < 0xa0) {
-			return 0
-		}
-		return 1
-	case unicode.Is(unicode.Mn, r), unicode.Is(unicode.Me, r), unicode.Is(unicode.Cf, r):
-		return 0
-	}
-	switch width.LookupRune(r).Kind() {
-	case width.EastAsianWide, width.EastAsianFullwidth:
-		return 2
-	}
-	return 1
 }
 
 // PadRight returns s followed by spaces up to w columns.
@@ -56,7 +45,9 @@ func PadLeft(s string, w int) string {
 	return s
 }
 
-// Truncate cuts s to at most w columns, ending it with "…" when cut.
+// Truncate cuts s to at most w columns, ending it with "…" when cut. It
+// cuts only between grapheme clusters, so no accent is torn off its letter
+// and no emoji sequence is split.
 func Truncate(s string, w int) string {
 	if Width(s) <= w {
 		return s
@@ -66,13 +57,16 @@ func Truncate(s string, w int) string {
 	}
 	n := 0
 	var b strings.Builder
-	for _, r := range s {
-		rw := RuneWidth(r)
-		if n+rw > w-1 {
+	state := -1
+	for s != "" {
+		var cluster string
+		var cw int
+		cluster, s, cw, state = uniseg.FirstGraphemeClusterInString(s, state)
+		if n+cw > w-1 {
 			break
 		}
-		b.WriteRune(r)
-		n += rw
+		b.WriteString(cluster)
+		n += cw
 	}
 	b.WriteString("…")
 	return b.String()

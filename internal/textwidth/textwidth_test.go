@@ -24,6 +24,27 @@ func TestWidth(t *testing.T) {
 		{"a\u200bb\ufeff", 2},
 		{"tab\tx", 4},
 		{"\xff", 1},
+		// Source: Unicode Technical Standard #51 (Emoji) — U+1F44D THUMBS UP
+		// SIGN has Emoji_Presentation=Yes (2 columns); U+1F3FD is an emoji
+		// modifier (§1.4.3) that joins it in one grapheme cluster (UAX #29
+		// rule GB9), so the pair stays 2 columns, not 4.
+		{"\U0001F44D", 2},
+		{"\U0001F44D\U0001F3FD", 2},
+		// Source: UTS #51 §2.3 — a ZWJ sequence (man, ZWJ, woman, ZWJ, girl)
+		// is one emoji: one cluster (UAX #29 rule GB11), 2 columns.
+		{"\U0001F468\u200d\U0001F469\u200d\U0001F467", 2},
+		// Source: UTS #51 §1.4.3 — U+2764 HEAVY BLACK HEART defaults to text
+		// presentation (1 column); variation selector 16 (U+FE0F) asks for
+		// emoji presentation (2 columns), selector 15 (U+FE0E) for text.
+		{"\u2764", 1},
+		{"\u2764\ufe0f", 2},
+		{"\U0001F600\ufe0e", 1},
+		// Source: UTS #51 annex B — a flag is a pair of regional indicators
+		// (here F, R): one cluster (UAX #29 rule GB12), 2 columns.
+		{"\U0001F1EB\U0001F1F7", 2},
+		// Source: Unicode Standard ch. 18 — Hangul jamo L+V+T compose one
+		// syllable block, a wide character (UAX #11 W for U+1100).
+		{"\u1100\u1161\u11a8", 2},
 	}
 	for _, c := range cases {
 		require.Equal(t, c.want, Width(c.s), "%q", c.s)
@@ -39,4 +60,9 @@ func TestPadAndTruncate(t *testing.T) {
 	require.Equal(t, "漢…", Truncate("漢字漢字", 4), "a wide character that does not fit is left out")
 	require.Equal(t, "short", Truncate("short", 10))
 	require.Equal(t, "", Truncate("abc", 0))
+	require.Equal(t, "E\u0301t…", Truncate("E\u0301tang", 3), "the accent stays on its letter")
+	family := "\U0001F468\u200d\U0001F469\u200d\U0001F467"
+	require.Equal(t, "ab…", Truncate("ab"+family+"cd", 4), "a ZWJ sequence is kept whole or left out")
+	require.Equal(t, "ab"+family+"…", Truncate("ab"+family+"cd", 5))
+	require.Equal(t, "PadRight: "+family+"   |", "PadRight: "+PadRight(family, 5)+"|")
 }
