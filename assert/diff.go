@@ -60,6 +60,38 @@ type Diff struct {
 
 	// Limit is the listing cap in force (negative: no cap).
 	Limit int
+
+	// WantName and GotName label the two sides in the renderers; "" means
+	// "want" and "got". A review of a changed golden file, say, names
+	// them "before" and "after". The JSON keeps its field names.
+	WantName, GotName string
+}
+
+// wantName is how renderers label want.
+func (d *Diff) wantName() string {
+	if d.WantName == "" {
+		return string(WantSide)
+	}
+	return d.WantName
+}
+
+// gotName is how renderers label got.
+func (d *Diff) gotName() string {
+	if d.GotName == "" {
+		return string(GotSide)
+	}
+	return d.GotName
+}
+
+// sideName labels a side as the renderers do.
+func (d *Diff) sideName(s Side) string {
+	switch s {
+	case WantSide:
+		return d.wantName()
+	case GotSide:
+		return d.gotName()
+	}
+	return string(s)
 }
 
 // MatchMode is how Compare pairs rows of want with rows of got.

@@ -44,11 +44,11 @@ func (d *Diff) HTML() string {
 	}
 	if len(d.Schema) > 0 {
 		h.heading(fmt.Sprintf("Schema changes (%d)", len(d.Schema)))
-		h.table("ps-schema", []string{"column", "change", "want", "got"})
+		h.table("ps-schema", []string{"column", "change", d.wantName(), d.gotName()})
 		for _, s := range d.Schema {
 			h.raw("<tr>")
 			h.elem("td", "ps-name", s.Column)
-			h.elem("td", "", describeChange(s.Change))
+			h.elem("td", "", d.describeChange(s.Change))
 			h.elem("td", "ps-want", s.Want)
 			h.elem("td", "ps-got", s.Got)
 			h.raw("</tr>\n")
@@ -61,10 +61,10 @@ func (d *Diff) HTML() string {
 	} else if d.CellsDiffering > 0 {
 		h.heading(fmt.Sprintf("Differing cells (%d, none listed)", d.CellsDiffering))
 	}
-	d.htmlRows(h, "Missing rows: in want, not in got", "ps-missing", d.Missing, d.WantColumns)
-	d.htmlRows(h, "Extra rows: in got, not in want", "ps-extra", d.Extra, d.GotColumns)
+	d.htmlRows(h, "Missing rows: in "+d.wantName()+", not in "+d.gotName(), "ps-missing", d.Missing, d.WantColumns)
+	d.htmlRows(h, "Extra rows: in "+d.gotName()+", not in "+d.wantName(), "ps-extra", d.Extra, d.GotColumns)
 	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
-		h.heading(fmt.Sprintf("Repeated keys (want %d, got %d%s)", d.Duplicates.WantKeys, d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
+		h.heading(fmt.Sprintf("Repeated keys (%s %d, %s %d%s)", d.wantName(), d.Duplicates.WantKeys, d.gotName(), d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
 		h.table("ps-dups", []string{"side", "key", "rows", "at rows"})
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
@@ -75,7 +75,7 @@ func (d *Diff) HTML() string {
 				at = append(at, "…")
 			}
 			h.raw("<tr>")
-			h.elem("td", "", string(k.Side))
+			h.elem("td", "", d.sideName(k.Side))
 			h.elem("td", "ps-key", "("+strings.Join(k.Key, ", ")+")")
 			h.elem("td", "ps-num", strconv.Itoa(k.Count))
 			h.elem("td", "", strings.Join(at, ", "))

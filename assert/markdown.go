@@ -19,12 +19,12 @@ func (d *Diff) Markdown() string {
 	var b strings.Builder
 	p := func(format string, args ...any) { fmt.Fprintf(&b, format, args...) }
 	if d.Equal() {
-		p("**Tables are equal** — %d rows, %d columns compared; %s.\n", d.WantRows, len(d.Compared), strings.TrimPrefix(d.matchLine(), fmt.Sprintf("want %d rows, got %d rows; ", d.WantRows, d.GotRows)))
+		p("**Tables are equal** — %d rows, %d columns compared; %s.\n", d.WantRows, len(d.Compared), strings.TrimPrefix(d.matchLine(), d.sizeLine()))
 		return b.String()
 	}
 	p("**%s**\n\n", capitalise(d.headline()))
-	p("| | want | got |\n|---|--:|--:|\n| rows | %d | %d |\n| columns | %d | %d |\n\n", d.WantRows, d.GotRows, len(d.WantColumns), len(d.GotColumns))
-	p("%s.\n", capitalise(strings.TrimPrefix(d.matchLine(), fmt.Sprintf("want %d rows, got %d rows; ", d.WantRows, d.GotRows))))
+	p("| | %s | %s |\n|---|--:|--:|\n| rows | %d | %d |\n| columns | %d | %d |\n\n", d.wantName(), d.gotName(), d.WantRows, d.GotRows, len(d.WantColumns), len(d.GotColumns))
+	p("%s.\n", capitalise(strings.TrimPrefix(d.matchLine(), d.sizeLine())))
 	if len(d.Problems) > 0 {
 		p("\n#### Problems\n\n")
 		for _, pr := range d.Problems {
@@ -32,9 +32,9 @@ func (d *Diff) Markdown() string {
 		}
 	}
 	if len(d.Schema) > 0 {
-		p("\n#### Schema changes\n\n| column | change | want | got |\n|---|---|---|---|\n")
+		p("\n#### Schema changes\n\n| column | change | %s | %s |\n|---|---|---|---|\n", d.wantName(), d.gotName())
 		for _, s := range d.Schema {
-			p("| %s | %s | %s | %s |\n", mdCode(s.Column), describeChange(s.Change), mdCode(s.Want), mdCode(s.Got))
+			p("| %s | %s | %s | %s |\n", mdCode(s.Column), d.describeChange(s.Change), mdCode(s.Want), mdCode(s.Got))
 		}
 	}
 	if d.CellsDiffering > 0 {
@@ -47,7 +47,7 @@ func (d *Diff) Markdown() string {
 				head = append(head, mdCode(k))
 			}
 		}
-		head = append(head, "column", "want", "got", "Δabs", "Δrel")
+		head = append(head, "column", d.wantName(), d.gotName(), "Δabs", "Δrel")
 		p("| %s |\n|%s\n", strings.Join(head, " | "), strings.Repeat("---|", len(head)))
 		var edits []string
 		for _, c := range d.Cells {
@@ -77,7 +77,7 @@ func (d *Diff) Markdown() string {
 			}
 		}
 		if len(edits) > 0 {
-			p("\nText edits (⟦want→got⟧):\n\n%s\n", strings.Join(edits, "\n"))
+			p("\nText edits (⟦%s→%s⟧):\n\n%s\n", d.wantName(), d.gotName(), strings.Join(edits, "\n"))
 		}
 	}
 	mdRows := func(title string, l RowList, cols []string) {
@@ -93,16 +93,16 @@ func (d *Diff) Markdown() string {
 			p("| %d | %s |\n", idx, mdJoin(r.Cells))
 		}
 	}
-	mdRows("Missing rows: in want, not in got", d.Missing, d.WantColumns)
-	mdRows("Extra rows: in got, not in want", d.Extra, d.GotColumns)
+	mdRows("Missing rows: in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns)
+	mdRows("Extra rows: in "+d.gotName()+", not in "+d.wantName(), d.Extra, d.GotColumns)
 	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
-		p("\n#### Repeated keys (want %d, got %d%s)\n\n| side | key | rows | at rows |\n|---|---|--:|---|\n", d.Duplicates.WantKeys, d.Duplicates.GotKeys, mdShown(len(d.Duplicates.Keys), n))
+		p("\n#### Repeated keys (%s %d, %s %d%s)\n\n| side | key | rows | at rows |\n|---|---|--:|---|\n", d.wantName(), d.Duplicates.WantKeys, d.gotName(), d.Duplicates.GotKeys, mdShown(len(d.Duplicates.Keys), n))
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
 			for i, r := range k.Rows {
 				at[i] = strconv.Itoa(r)
 			}
-			p("| %s | %s | %d | %s |\n", k.Side, mdCode("("+strings.Join(k.Key, ", ")+")"), k.Count, strings.Join(at, ", "))
+			p("| %s | %s | %d | %s |\n", d.sideName(k.Side), mdCode("("+strings.Join(k.Key, ", ")+")"), k.Count, strings.Join(at, ", "))
 		}
 	}
 	if cols := d.notableColumns(); len(cols) > 0 {

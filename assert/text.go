@@ -73,19 +73,19 @@ func (d *Diff) TextWith(st TextStyle) string {
 	}
 	if len(d.Schema) > 0 {
 		w.section(fmt.Sprintf("schema changes (%d)", len(d.Schema)))
-		rows := [][]string{{"column", "change", "want", "got"}}
+		rows := [][]string{{"column", "change", d.wantName(), d.gotName()}}
 		for _, s := range d.Schema {
-			rows = append(rows, []string{s.Column, describeChange(s.Change), s.Want, s.Got})
+			rows = append(rows, []string{s.Column, d.describeChange(s.Change), s.Want, s.Got})
 		}
 		w.table(rows, nil, map[int]string{2: ansiWant, 3: ansiGot})
 	}
 	if d.CellsDiffering > 0 {
 		w.cells(d)
 	}
-	w.rowList(d, "missing rows", "in want, not in got", d.Missing, d.WantColumns, ansiWant)
-	w.rowList(d, "extra rows", "in got, not in want", d.Extra, d.GotColumns, ansiGot)
+	w.rowList(d, "missing rows", "in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns, ansiWant)
+	w.rowList(d, "extra rows", "in "+d.gotName()+", not in "+d.wantName(), d.Extra, d.GotColumns, ansiGot)
 	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
-		w.section(fmt.Sprintf("repeated keys (want %d, got %d)%s", d.Duplicates.WantKeys, d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
+		w.section(fmt.Sprintf("repeated keys (%s %d, %s %d)%s", d.wantName(), d.Duplicates.WantKeys, d.gotName(), d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
 		rows := [][]string{{"side", "key", "rows", "at rows"}}
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
@@ -96,7 +96,7 @@ func (d *Diff) TextWith(st TextStyle) string {
 			if len(k.Rows) < k.Count {
 				more = ", …"
 			}
-			rows = append(rows, []string{string(k.Side), "(" + strings.Join(k.Key, ", ") + ")", strconv.Itoa(k.Count), strings.Join(at, ", ") + more})
+			rows = append(rows, []string{d.sideName(k.Side), "(" + strings.Join(k.Key, ", ") + ")", strconv.Itoa(k.Count), strings.Join(at, ", ") + more})
 		}
 		w.table(rows, map[int]bool{2: true}, nil)
 	}
@@ -157,15 +157,20 @@ func (d *Diff) matchLine() string {
 	case MatchAsMultiset:
 		how = "rows matched in any order"
 	}
-	return fmt.Sprintf("want %d rows, got %d rows; %s", d.WantRows, d.GotRows, how)
+	return d.sizeLine() + how
 }
 
-func describeChange(c ChangeKind) string {
+// sizeLine is the start of matchLine: "want 3 rows, got 4 rows; ".
+func (d *Diff) sizeLine() string {
+	return fmt.Sprintf("%s %d rows, %s %d rows; ", d.wantName(), d.WantRows, d.gotName(), d.GotRows)
+}
+
+func (d *Diff) describeChange(c ChangeKind) string {
 	switch c {
 	case ColumnMissing:
-		return "missing from got"
+		return "missing from " + d.gotName()
 	case ColumnExtra:
-		return "only in got"
+		return "only in " + d.gotName()
 	case TypeChanged:
 		return "type changed"
 	case LevelsAdded:
@@ -248,7 +253,7 @@ func (w *textWriter) cells(d *Diff) {
 		head = append(head, "row")
 	}
 	nk := len(head)
-	head = append(head, "column", "want", "got", "Δabs", "Δrel")
+	head = append(head, "column", d.wantName(), d.gotName(), "Δabs", "Δrel")
 	rows := [][]string{head}
 	edits := map[int]string{}
 	right := map[int]bool{nk + 3: true, nk + 4: true}
