@@ -63,13 +63,45 @@ func ExampleEncodeTable() {
 	}
 	fmt.Print(string(data))
 	// Output:
-	// # proofsheet sheet v1
+	// # proofsheet sheet v2
 	// # keys: house, day
 	// # rows: 3
+	// # match: by key
 	// house:string | day:date | tmax:float64 | kept:int64
 	// Les Pins | 2026-04-01 | ~ | 0
 	// Étang | 2026-04-01 | 21.5 | 140
 	// Étang | 2026-04-02 | 19.25 | 138
+}
+
+func ExampleEncodeTableRules() {
+	daily, err := fixtures.Parse(`
+		house:string | day:date   | tmax:float64 | note:string
+		Étang        | 2026-04-02 | 19.25        | ""
+		Étang        | 2026-04-01 | 21.5         | "door open"
+	`)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	// The rules a check compares under are stored with the table, so a
+	// later check (or proofsheet golden) needs no options.
+	rules := assert.RulesOf(assert.ByKey("house", "day"), assert.Tol("tmax", 0.005, 0), assert.IgnoreColumns("note"))
+	data, err := golden.EncodeTableRules(daily, rules)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Print(string(data))
+	// Output:
+	// # proofsheet sheet v2
+	// # keys: house, day
+	// # rows: 2
+	// # match: by key
+	// # tol: tmax=abs:0.005
+	// # ignore: note
+	// house:string | day:date | tmax:float64 | note:string
+	// Étang | 2026-04-01 | 21.5 | door open
+	// Étang | 2026-04-02 | 19.25 | ""
 }
 
 func ExampleCanonicalJSON() {

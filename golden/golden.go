@@ -184,13 +184,18 @@ type result struct {
 	bad     error           // the stored file could not be read or parsed
 	diff    string          // readable difference, when not equal
 	diffRec json.RawMessage // the difference as data (tables), for records
+	note    string          // about the rules compared under (tables), for the log and the failure
+	rewrite bool            // update mode rewrites the file even when equal (to store new rules)
 }
 
 // settle turns a result into the check's outcome: pass, fail with the
 // difference, or — in update mode — rewrite the file with encode's bytes.
 func (c *check) settle(r result, encode func() ([]byte, error)) bool {
 	c.t.Helper()
-	if r.exists && r.equal && r.bad == nil {
+	if r.note != "" {
+		c.t.Logf("golden: %s: %s", c.show, r.note)
+	}
+	if r.exists && r.equal && r.bad == nil && !(r.rewrite && c.mode.allowed()) {
 		return c.pass(StatusEqual, nil)
 	}
 	if c.mode.allowed() {
@@ -223,6 +228,9 @@ func (c *check) settle(r result, encode func() ([]byte, error)) bool {
 		hint = "Fix the file, or rewrite it from got; from the module root run:"
 	default:
 		fmt.Fprintf(&msg, "golden: %s: got differs from the golden file (want):\n%s\n", c.show, strings.TrimRight(r.diff, "\n"))
+		if r.note != "" {
+			fmt.Fprintf(&msg, "Note: %s.\n", r.note)
+		}
 		hint = "If the change is intended, rewrite the file and review it in your diff; from the module root run:"
 	}
 	if err := c.mode.refusal(); err != nil {

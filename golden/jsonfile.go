@@ -250,8 +250,9 @@ func JSONDiff(want, got []byte) (string, error) {
 	if err != nil {
 		return "", fmt.Errorf("got: %w", err)
 	}
-	var lines []string
-	diffJSON(&lines, "$", w, g)
+	var jl jsonLines
+	diffJSON(&jl, "$", w, g)
+	lines := jl.list
 	if len(lines) == 0 {
 		return "", nil
 	}
@@ -262,8 +263,26 @@ func JSONDiff(want, got []byte) (string, error) {
 	return fmt.Sprintf("%d difference(s):\n%s\n", n, strings.Join(lines, "\n")), nil
 }
 
+// jsonLines collects the differences of two JSON documents, one line
+// each. A value that changed reads "$.p: got G want W", or in a review of
+// two versions "$.p: before W, after G".
+type jsonLines struct {
+	list   []string
+	review bool
+}
+
+func (l *jsonLines) add(line string) { l.list = append(l.list, line) }
+
+func (l *jsonLines) changed(path, w, g string) {
+	if l.review {
+		l.add(path + ": before " + w + ", after " + g)
+		return
+	}
+	l.add(path + ": got " + g + " want " + w)
+}
+
 // diffJSON appends the differences of w and g at path.
-func diffJSON(lines *[]string, path string, w, g any) {
+func diffJSON(lines *jsonLines, path string, w, g any) {
 	switch wx := w.(type) {
 	case map[string]any:
 		gx, ok := g.(map[string]any)
@@ -283,9 +302,9 @@ func diffJSON(lines *[]string, path string, w, g any) {
 			gv, inG := gx[k]
 			switch {
 			case !inW:
-				*lines = append(*lines, p+": added: "+brief(gv))
+				lines.add(p + ": added: " + brief(gv))
 			case !inG:
-				*lines = append(*lines, p+": removed: "+brief(wv))
+				lines.add(p + ": removed: " + brief(wv))
 			default:
 				diffJSON(lines, p, wv, gv)
 			}
@@ -300,14 +319,14 @@ func diffJSON(lines *[]string, path string, w, g any) {
 		return
 	}
 	if compact(w) != compact(g) {
-		*lines = append(*lines, fmt.Sprintf("%s: got %s want %s", path, brief(g), brief(w)))
+		lines.changed(path, brief(w), brief(g))
 	}
 }
 
 // diffArrays aligns two arrays by a shortest edit script over their
 // elements (each distinct element one symbol), then pairs removed and
 // added elements that stand at the same place as changes.
-func diffArrays(lines *[]string, path string, w, g []any) {
+func diffArrays(lines *jsonLines, path string, w, g []any) {
 	if len(w) == len(g) {
 		same := 0
 		for i := range w {
@@ -342,9 +361,9 @@ func diffArrays(lines *[]string, path string, w, g []any) {
 		for i := 0; i < max(len(w), len(g)); i++ {
 			switch p := fmt.Sprintf("%s[%d]", path, i); {
 			case i >= len(w):
-				*lines = append(*lines, p+": added: "+brief(g[i]))
+				lines.add(p + ": added: " + brief(g[i]))
 			case i >= len(g):
-				*lines = append(*lines, p+": removed: "+brief(w[i]))
+				lines.add(p + ": removed: " + brief(w[i]))
 			default:
 				diffJSON(lines, p, w[i], g[i])
 			}
@@ -359,10 +378,10 @@ func diffArrays(lines *[]string, path string, w, g []any) {
 			diffJSON(lines, fmt.Sprintf("%s[%d]", path, j-ins+k), w[i-dels+k], g[j-ins+k])
 		}
 		for k := pairs; k < dels; k++ {
-			*lines = append(*lines, fmt.Sprintf("%s[%d]: removed: %s", path, i-dels+k, brief(w[i-dels+k])))
+			lines.add(fmt.Sprintf("%s[%d]: removed: %s", path, i-dels+k, brief(w[i-dels+k])))
 		}
 		for k := pairs; k < ins; k++ {
-			*lines = append(*lines, fmt.Sprintf("%s[%d]: added: %s", path, j-ins+k, brief(g[j-ins+k])))
+			lines.add(fmt.Sprintf("%s[%d]: added: %s", path, j-ins+k, brief(g[j-ins+k])))
 		}
 		dels, ins = 0, 0
 	}

@@ -62,6 +62,14 @@ type FileReview struct {
 	OldRows, NewRows int
 	// OldKeys and NewKeys are the key columns each stored table declares.
 	OldKeys, NewKeys []string
+	// Rules are the rules a table's two versions were compared under: the
+	// rules the new version stores, else the old version's (see
+	// SheetInfo), with the review's own options on top. RulesChange says
+	// how the stored rules differ between the versions ("" when they do
+	// not); a change of rules makes the file changed, since a wider
+	// tolerance can hide a difference.
+	Rules       assert.Rules
+	RulesChange string
 	// Columns lists the columns ("name:type") of a new or removed table.
 	Columns []string
 	// Preview holds the first rows of a new or removed table (cells in the
@@ -69,7 +77,7 @@ type FileReview struct {
 	// JSON file (one cell per line).
 	Preview [][]string
 	// Diff is the comparison of a table's versions, old as want and new
-	// as got.
+	// as got, labelled "before" and "after".
 	Diff *assert.Diff
 	// Lines is the line diff of a changed text file: changed lines with
 	// up to three unchanged lines around them; Added and Removed count the
@@ -250,12 +258,22 @@ func reviewTable(f *FileReview, c FileChange, optsFor OptionsFor) {
 		f.Status = ReviewChanged
 		return
 	}
-	keys := f.NewKeys
-	if !hasColumns(old, keys) || !hasColumns(cur, keys) {
-		keys = f.OldKeys
-		if !hasColumns(old, keys) || !hasColumns(cur, keys) {
-			keys = nil
-		}
+	// The stored rules, the new version's first, as long as their keys
+	// fit both versions.
+	fits := func(r assert.Rules) bool {
+		return r.Match != assert.MatchByKey || (hasColumns(old, r.Keys) && hasColumns(cur, r.Keys))
+	}
+	f.Rules = assert.Rules{Match: assert.MatchByPosition}
+	switch {
+	case fits(newInfo.Rules):
+		f.Rules = newInfo.Rules
+	case fits(oldInfo.Rules):
+		f.Rules = oldInfo.Rules
+	}
+	if oldInfo.HasRules && newInfo.HasRules {
+		// A version 1 file stores only how its rows are sorted, so there is
+		// no change of rules to speak of before both versions store them.
+		f.RulesChange = rulesChange(oldInfo.Rules, newInfo.Rules, "before", "after", "stored rules changed")
 	}
 	names := old.Names()
 	for _, n := range cur.Names() {
@@ -263,16 +281,16 @@ func reviewTable(f *FileReview, c FileChange, optsFor OptionsFor) {
 			names = append(names, n)
 		}
 	}
-	var all []assert.Option
-	if len(keys) > 0 {
-		all = append(all, assert.ByKey(keys...))
-	}
+	all := f.Rules.Options()
 	if optsFor != nil {
-		all = append(all, optsFor(names)...)
+		extra := optsFor(names)
+		all = append(all, extra...)
+		f.Rules = assert.RulesOf(all...)
 	}
 	f.Diff = assert.Compare(old, cur, all...)
+	f.Diff.WantName, f.Diff.GotName = "before", "after"
 	f.Status = ReviewChanged
-	if f.Diff.Equal() {
+	if f.Diff.Equal() && f.RulesChange == "" {
 		f.Status = ReviewUnchanged
 	}
 }
@@ -408,8 +426,9 @@ func reviewJSON(f *FileReview, c FileChange) {
 	if len(f.Problems) > 0 {
 		return
 	}
-	var lines []string
-	diffJSON(&lines, "$", w, g)
+	jl := jsonLines{review: true}
+	diffJSON(&jl, "$", w, g)
+	lines := jl.list
 	f.PathCount = len(lines)
 	if len(lines) > jsonDiffMaxLines {
 		lines = lines[:jsonDiffMaxLines]
@@ -515,6 +534,7 @@ func reviewRecord(path string, r Record) FileReview {
 			f.Problems = append(f.Problems, fmt.Sprintf("the record's diff: %v", err))
 		} else {
 			f.Diff = d
+			f.Diff.WantName, f.Diff.GotName = "before", "after"
 			f.OldRows, f.NewRows = d.WantRows, d.GotRows
 		}
 	}

@@ -92,6 +92,9 @@ func tableSummary(f *FileReview) string {
 	if !slices.Equal(f.OldKeys, f.NewKeys) && f.OldRows >= 0 && f.NewRows >= 0 {
 		parts = append(parts, "keys "+keyList(f.OldKeys)+" → "+keyList(f.NewKeys))
 	}
+	if f.RulesChange != "" {
+		parts = append(parts, "stored rules changed")
+	}
 	s := strings.Join(parts, ", ")
 	if f.Status == ReviewUnchanged {
 		s = "equal within tolerance"
@@ -231,6 +234,10 @@ func mdSection(f *FileReview) string {
 		if !slices.Equal(f.OldKeys, f.NewKeys) && f.OldRows >= 0 && f.NewRows >= 0 {
 			p("Key columns changed: %s → %s.\n\n", mdText(keyList(f.OldKeys)), mdText(keyList(f.NewKeys)))
 		}
+		if f.RulesChange != "" {
+			p("%s.\n\n", mdText(capitalise(f.RulesChange)))
+		}
+		p("Compared under: %s.\n\n", mdText(f.Rules.String()))
 		p("%s", f.Diff.Markdown())
 		body = true
 	case len(f.Lines) > 0:
@@ -382,6 +389,12 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 		if f.Test != "" {
 			b.WriteString("  checked by " + f.Test + "\n")
 		}
+		if f.Kind == KindTable && f.Diff != nil && f.Status == ReviewChanged && f.Test == "" {
+			if f.RulesChange != "" {
+				b.WriteString(indent(textwidth.Truncate(f.RulesChange, st.Width-2)) + "\n")
+			}
+			b.WriteString(indent(textwidth.Truncate("compared under: "+f.Rules.String(), st.Width-2)) + "\n")
+		}
 		var body string
 		switch {
 		case len(f.Problems) > 0:
@@ -456,6 +469,8 @@ func (r *Review) JSON() ([]byte, error) {
 		NewRows   *int            `json:"new_rows"`
 		OldKeys   []string        `json:"old_keys"`
 		NewKeys   []string        `json:"new_keys"`
+		Rules     []string        `json:"rules"`
+		RulesChg  string          `json:"rules_change,omitempty"`
 		Columns   []string        `json:"columns"`
 		Problems  []string        `json:"problems"`
 		Diff      json.RawMessage `json:"diff"`
@@ -493,7 +508,11 @@ func (r *Review) JSON() ([]byte, error) {
 		jf := jFile{Path: f.Path, Kind: f.Kind, Status: f.Status, Summary: f.Summary(), Test: f.Test,
 			OldRows: rows(f.OldRows), NewRows: rows(f.NewRows), OldKeys: nonEmpty(f.OldKeys), NewKeys: nonEmpty(f.NewKeys),
 			Columns: nonEmpty(f.Columns), Problems: nonEmpty(f.Problems), Diff: json.RawMessage("null"), Lines: []jLine{},
-			Added: f.Added, Removed: f.Removed, Paths: nonEmpty(f.Paths), PathCount: f.PathCount, Detail: f.Detail}
+			Added: f.Added, Removed: f.Removed, Paths: nonEmpty(f.Paths), PathCount: f.PathCount, Detail: f.Detail,
+			Rules: []string{}, RulesChg: f.RulesChange}
+		if f.Kind == KindTable && f.Diff != nil && f.Test == "" {
+			jf.Rules = f.Rules.Parts()
+		}
 		if f.Diff != nil {
 			js, err := f.Diff.JSON()
 			if err != nil {
@@ -647,6 +666,12 @@ func htmlFile(b *strings.Builder, n int, f *FileReview) {
 	}
 	if f.Test != "" {
 		facts = append(facts, "checked by "+f.Test)
+	}
+	if f.Kind == KindTable && f.Diff != nil && f.Test == "" && f.OldRows >= 0 && f.NewRows >= 0 {
+		facts = append(facts, "compared under: "+f.Rules.String())
+		if f.RulesChange != "" {
+			facts = append(facts, f.RulesChange)
+		}
 	}
 	facts = append(facts, f.Summary())
 	w(`<p class="ps-facts">` + e(strings.Join(facts, " · ")) + "</p>\n")

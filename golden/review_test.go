@@ -94,7 +94,7 @@ func TestReviewChange(t *testing.T) {
 		}, "new text file, 2 lines", 0},
 		{"JSON respaced", change("j/season.gold.json", `{"a": 1, "b": [1, 2]}`, "{\n  \"b\": [1,2],\n  \"a\": 1.0\n}\n"), nil, ReviewUnchanged, nil, "the same JSON, spaced or ordered differently", 0},
 		{"JSON value", change("j/season.gold.json", `{"a": 1, "b": [1, 2]}`, `{"a": 2, "b": [1, 2, 3]}`), nil, ReviewChanged, func(t *testing.T, f FileReview) {
-			require.Equal(t, []string{"$.a: got 2 want 1", "$.b[2]: added: 3"}, f.Paths)
+			require.Equal(t, []string{"$.a: before 1, after 2", "$.b[2]: added: 3"}, f.Paths)
 		}, "2 JSON paths differ", 0},
 		{"JSON broken", change("j/season.gold.json", `{"a": 1}`, `{"a": `), nil, ReviewChanged, nil, "", 1},
 	}
@@ -320,4 +320,54 @@ func TestReviewChangeForChoosesOptionsByColumns(t *testing.T) {
 	require.Equal(t, []string{"house", "day", "tmax", "kept"}, seen)
 	require.Equal(t, ReviewUnchanged, f.Status)
 	require.Empty(t, f.Diff.Problems)
+}
+
+func TestReviewUnderStoredRules(t *testing.T) {
+	tb := fixtures.MustParse(t, `house:string | day:date | tmax:float64 | kept:int64
+		Étang    | 2026-04-01 | 21.5  | 140
+		Les Pins | 2026-04-01 | 18.25 | 144`)
+	noisy := fixtures.MustParse(t, `house:string | day:date | tmax:float64 | kept:int64
+		Les Pins | 2026-04-01 | 18.250000000000004 | 144
+		Étang    | 2026-04-01 | 21.5  | 140`)
+	enc := func(tb *fixtures.Table, opts ...assert.Option) string {
+		data, err := EncodeTableRules(tb, assert.RulesOf(opts...))
+		require.NoError(t, err)
+		return string(data)
+	}
+	tight := []assert.Option{assert.ByKey("house", "day"), assert.Tol("tmax", 1e-9, 0)}
+
+	// The stored tolerance applies with no options: noise is no change,
+	// and the column says how it was compared.
+	f := ReviewChange(change("d/daily.gold.tbl", enc(tb, tight...), enc(noisy, tight...)))
+	require.Equal(t, ReviewUnchanged, f.Status)
+	require.Equal(t, "rows by key house, day; tmax=abs:1e-09", f.Rules.String())
+	require.Equal(t, "abs 1e-09", f.Diff.Columns[0+2].Rule, "%+v", f.Diff.Columns)
+	require.Empty(t, f.RulesChange)
+
+	// A tolerance widened in the same change: changed, whatever the data,
+	// and the old and new rules are named.
+	wide := []assert.Option{assert.ByKey("house", "day"), assert.Tol("tmax", 0.5, 0)}
+	f = ReviewChange(change("d/daily.gold.tbl", enc(tb, tight...), enc(noisy, wide...)))
+	require.Equal(t, ReviewChanged, f.Status)
+	require.Equal(t, "stored rules changed: only before: tmax=abs:1e-09 — only after: tmax=abs:0.5", f.RulesChange)
+	require.Equal(t, "stored rules changed; largest Δabs 3.55e-15 (tmax)", f.Summary())
+	rv := &Review{Files: []FileReview{f}}
+	md := rv.Markdown()
+	require.Contains(t, md, "Stored rules changed: only before: tmax=abs:1e-09 — only after: tmax=abs:0.5.")
+	require.Contains(t, md, "Compared under: rows by key house, day; tmax=abs:0.5.")
+	require.Contains(t, rv.Text(), "compared under: rows by key house, day; tmax=abs:0.5")
+	js, err := rv.JSON()
+	require.NoError(t, err)
+	require.Contains(t, string(js), `"rules": [`)
+	require.Contains(t, string(js), `"rules_change": "stored rules changed`)
+
+	// The two sides are the versions, not want and got.
+	changed := fixtures.MustParse(t, `house:string | day:date | tmax:float64 | kept:int64
+		Étang    | 2026-04-01 | 22.5  | 140
+		Les Pins | 2026-04-01 | 18.25 | 144`)
+	f = ReviewChange(change("d/daily.gold.tbl", enc(tb, tight...), enc(changed, tight...)))
+	require.Equal(t, ReviewChanged, f.Status)
+	md = (&Review{Files: []FileReview{f}}).Markdown()
+	require.Contains(t, md, "| `house` | `day` | column | before | after |")
+	require.NotContains(t, md, "| want |")
 }

@@ -4,30 +4,44 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
 
+	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
 )
 
-// The stored table format ("sheet" layout, version 1). A golden table file
-// is a literal text table (see fixtures.Parse) written without padding,
-// after three comment lines of metadata:
+// The stored table format ("sheet" layout). A golden table file is a
+// literal text table (see fixtures.Parse) written without padding, after
+// comment lines of metadata. Version 2 stores the comparison rules too:
 //
-//	# proofsheet sheet v1
+//	# proofsheet sheet v2
 //	# keys: house, day
 //	# rows: 2
+//	# match: by key
+//	# tol: *=abs:1e-09
+//	# tol: tmean=rel:1e-12
+//	# ignore: note
 //	house:string | day:date | tmax:float64 | kept:int64
 //	Les Pins | 2026-04-01 | ~ | 0
 //	Étang | 2026-04-01 | 21.5 | 140
 //
 //   - The first line names the layout and its version. A reader refuses
-//     versions it does not know.
+//     versions it does not know; every version it knows still reads.
 //   - "keys:" lists the key columns the rows are sorted by (quoted as
 //     literal cells when a name needs it), or "-" when rows are in the
 //     order got had them.
 //   - "rows:" is the number of rows, so a file cut short or a merge that
 //     lost lines is noticed. Edit it when you edit rows by hand.
+//   - The rules (version 2): "match:" says how rows pair — "by key" (the
+//     keys line names them), "by position" or "in any order"; then, only
+//     when set, one "tol:" line per tolerance in the --tol syntax of the
+//     command line (COLUMN=abs:X,rel:Y, COLUMN=ulp:N, COLUMN=time:D; see
+//     assert.ParseTolerance), "ignore:" with the ignored columns, one
+//     "text:" line per text normalisation (COLUMN=nfc+trim+fold), and
+//     "compare:" with any of any-column-order, loose-types, nan-is-null.
+//     A check with no rules of its own compares under these.
 //   - Then the header line: name:type per column, so column kinds are
 //     recorded; then one row per line. Cells are separated by " | " and
 //     not padded, so changing one value changes one line of a diff.
@@ -35,12 +49,14 @@ import (
 //     the empty string; text that needs it is a quoted Go string. The file
 //     reads back to the same table exactly.
 //
-// The metadata holds nothing that changes from run to run (no dates, no
-// tool version), so an unchanged table writes the same bytes.
+// Version 1 files have no rules lines: their keys line says only how rows
+// are sorted, and a check of one with no rules of its own matches rows by
+// those keys. The metadata holds nothing that changes from run to run (no
+// dates, no tool version), so an unchanged table writes the same bytes.
 
 // SheetVersion is the version of the stored table format this package
-// writes and reads.
-const SheetVersion = 1
+// writes; it reads every version up to it.
+const SheetVersion = 2
 
 const sheetMagic = "# proofsheet sheet v"
 
@@ -53,18 +69,43 @@ type SheetInfo struct {
 	Keys []string
 	// Rows is the row count the file declares.
 	Rows int
+	// Rules are the comparison rules the file stores. A version 1 file
+	// stores none: its Rules match rows by Keys (by position without
+	// keys) and HasRules is false.
+	Rules    assert.Rules
+	HasRules bool
 }
 
-// EncodeTable writes tb in the stored golden table format. With keys, the
+// EncodeTable writes tb in the stored golden table format, with rules
+// that match rows by keys (by position without keys). With keys, the
 // rows are stably sorted by those columns first (nulls first, as
 // fixtures.Table.SortBy orders them); without, they keep their order. A
-// table with no columns cannot be stored.
+// table with no columns cannot be stored. EncodeTableRules stores other
+// rules.
 func EncodeTable(tb *fixtures.Table, keys []string) ([]byte, error) {
+	r := assert.Rules{Match: assert.MatchByPosition}
+	if len(keys) > 0 {
+		r = assert.Rules{Match: assert.MatchByKey, Keys: keys}
+	}
+	return EncodeTableRules(tb, r)
+}
+
+// EncodeTableRules writes tb in the stored golden table format with the
+// comparison rules in its header; rows are sorted by the rules' keys when
+// they match rows by key.
+func EncodeTableRules(tb *fixtures.Table, rules assert.Rules) ([]byte, error) {
 	if tb == nil {
 		return nil, errors.New("golden: no table (nil)")
 	}
 	if tb.NumCols() == 0 {
 		return nil, errors.New("golden: a table with no columns cannot be stored")
+	}
+	var keys []string
+	if rules.Match == assert.MatchByKey {
+		keys = rules.Keys
+		if len(keys) == 0 {
+			return nil, errors.New("golden: rules match rows by key but name no key column")
+		}
 	}
 	if len(keys) > 0 {
 		sorted, err := tb.SortBy(keys...)
@@ -79,15 +120,52 @@ func EncodeTable(tb *fixtures.Table, keys []string) ([]byte, error) {
 	if len(keys) == 0 {
 		b.WriteString("-")
 	}
-	for i, k := range keys {
+	writeNames(&b, keys)
+	fmt.Fprintf(&b, "\n# rows: %d\n", tb.NumRows())
+	switch rules.Match {
+	case assert.MatchByKey:
+		b.WriteString("# match: by key\n")
+	case assert.MatchAsMultiset:
+		b.WriteString("# match: in any order\n")
+	default:
+		b.WriteString("# match: by position\n")
+	}
+	for _, t := range rules.Tolerances {
+		b.WriteString("# tol: " + t.String() + "\n")
+	}
+	if len(rules.Ignore) > 0 {
+		b.WriteString("# ignore: ")
+		writeNames(&b, rules.Ignore)
+		b.WriteString("\n")
+	}
+	for _, t := range rules.Text {
+		b.WriteString("# text: " + t.String() + "\n")
+	}
+	var sw []string
+	if rules.AnyColumnOrder {
+		sw = append(sw, "any-column-order")
+	}
+	if rules.LooseTypes {
+		sw = append(sw, "loose-types")
+	}
+	if rules.NaNIsNull {
+		sw = append(sw, "nan-is-null")
+	}
+	if len(sw) > 0 {
+		b.WriteString("# compare: " + strings.Join(sw, ", ") + "\n")
+	}
+	b.WriteString(tb.LiteralWith(fixtures.LiteralStyle{Pad: false}))
+	return b.Bytes(), nil
+}
+
+// writeNames writes column names as a comma-separated list.
+func writeNames(b *bytes.Buffer, names []string) {
+	for i, k := range names {
 		if i > 0 {
 			b.WriteString(", ")
 		}
 		b.WriteString(keyCell(k))
 	}
-	fmt.Fprintf(&b, "\n# rows: %d\n", tb.NumRows())
-	b.WriteString(tb.LiteralWith(fixtures.LiteralStyle{Pad: false}))
-	return b.Bytes(), nil
 }
 
 // keyCell writes a key column name, quoted when it could not be read back
@@ -99,9 +177,9 @@ func keyCell(k string) string {
 	return k
 }
 
-// DecodeTable reads a stored golden table. name is the file name used in
-// error messages; table errors are *fixtures.ParseError values with line
-// and column.
+// DecodeTable reads a stored golden table of any version this package
+// knows. name is the file name used in error messages; table errors are
+// *fixtures.ParseError values with line and column.
 func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 	var info SheetInfo
 	text := string(data)
@@ -118,9 +196,9 @@ func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 		return nil, info, fmt.Errorf("%s:1: format version %d is newer than this package reads (%d); update proofsheet", name, v, SheetVersion)
 	}
 	info.Version = v
-	// Metadata: "# keys:" and "# rows:" among the comment lines before the
-	// header.
-	gotRows := false
+	info.HasRules = v >= 2
+	// Metadata: "# NAME: VALUE" among the comment lines before the header.
+	gotRows, gotMatch := false, false
 	for i := 1; rest != ""; i++ {
 		var raw string
 		raw, rest, _ = strings.Cut(rest, "\n")
@@ -136,21 +214,91 @@ func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 			continue
 		}
 		val = strings.TrimSpace(val)
-		switch strings.TrimSpace(key) {
-		case "keys":
+		at := func(err error) error { return fmt.Errorf("%s:%d: %s: %w", name, i+1, strings.TrimSpace(key), err) }
+		switch k := strings.TrimSpace(key); {
+		case k == "keys":
 			if info.Keys, err = parseKeyList(val); err != nil {
-				return nil, info, fmt.Errorf("%s:%d: keys: %w", name, i+1, err)
+				return nil, info, at(err)
 			}
-		case "rows":
+		case k == "rows":
 			n, err := strconv.Atoi(val)
 			if err != nil || n < 0 {
 				return nil, info, fmt.Errorf("%s:%d: rows: want a count, got %q", name, i+1, val)
 			}
 			info.Rows, gotRows = n, true
+		case v < 2:
+			// Version 1 has no other metadata: the rest are comments.
+		case k == "match":
+			switch val {
+			case "by key":
+				info.Rules.Match = assert.MatchByKey
+			case "by position":
+				info.Rules.Match = assert.MatchByPosition
+			case "in any order":
+				info.Rules.Match = assert.MatchAsMultiset
+			default:
+				return nil, info, at(fmt.Errorf("want by key, by position or in any order, got %q", val))
+			}
+			gotMatch = true
+		case k == "tol":
+			t, err := assert.ParseTolerance(val)
+			if err != nil {
+				return nil, info, at(err)
+			}
+			info.Rules.Tolerances = append(info.Rules.Tolerances, t)
+		case k == "ignore":
+			if info.Rules.Ignore, err = parseKeyList(val); err != nil || len(info.Rules.Ignore) == 0 {
+				if err == nil {
+					err = errors.New("no column named")
+				}
+				return nil, info, at(err)
+			}
+		case k == "text":
+			t, err := assert.ParseTextRule(val)
+			if err != nil {
+				return nil, info, at(err)
+			}
+			info.Rules.Text = append(info.Rules.Text, t)
+		case k == "compare":
+			for _, s := range strings.Split(val, ",") {
+				switch s = strings.TrimSpace(s); s {
+				case "any-column-order":
+					info.Rules.AnyColumnOrder = true
+				case "loose-types":
+					info.Rules.LooseTypes = true
+				case "nan-is-null":
+					info.Rules.NaNIsNull = true
+				default:
+					return nil, info, at(fmt.Errorf("unknown switch %q (want any-column-order, loose-types or nan-is-null)", s))
+				}
+			}
+		default:
+			return nil, info, at(errors.New("unknown metadata (want keys, rows, match, tol, ignore, text or compare)"))
 		}
 	}
 	if !gotRows {
 		return nil, info, fmt.Errorf("%s: no \"# rows:\" line before the header", name)
+	}
+	if info.HasRules {
+		switch {
+		case !gotMatch:
+			return nil, info, fmt.Errorf("%s: no \"# match:\" line before the header", name)
+		case info.Rules.Match == assert.MatchByKey && len(info.Keys) == 0:
+			return nil, info, fmt.Errorf("%s: match: by key, but the keys line names no key", name)
+		case info.Rules.Match != assert.MatchByKey && len(info.Keys) > 0:
+			return nil, info, fmt.Errorf("%s: the keys line names keys, but match: is not by key", name)
+		}
+		if info.Rules.Match == assert.MatchByKey {
+			info.Rules.Keys = slices.Clone(info.Keys)
+		}
+		// Put the rules in the order RulesOf gives, so equal rules are
+		// Equal however the lines were ordered by hand.
+		info.Rules = assert.RulesOf(info.Rules.Options()...)
+	} else {
+		info.Rules = assert.Rules{Match: assert.MatchByPosition}
+		if len(info.Keys) > 0 {
+			info.Rules = assert.Rules{Match: assert.MatchByKey, Keys: slices.Clone(info.Keys)}
+		}
 	}
 	tb, err := fixtures.ParseFile(name, text)
 	if err != nil {

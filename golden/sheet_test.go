@@ -5,6 +5,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/stretchr/testify/require"
 )
@@ -74,7 +75,11 @@ func TestSheetRoundTrip(t *testing.T) {
 		require.NoError(t, err)
 		back, info, err := DecodeTable("x.gold.tbl", data)
 		require.NoError(t, err, string(data))
-		require.Equal(t, SheetInfo{Version: SheetVersion, Keys: keys, Rows: tb.NumRows()}, info)
+		rules := assert.Rules{Match: assert.MatchByPosition}
+		if keys != nil {
+			rules = assert.Rules{Match: assert.MatchByKey, Keys: keys}
+		}
+		require.Equal(t, SheetInfo{Version: SheetVersion, Keys: keys, Rows: tb.NumRows(), Rules: rules, HasRules: true}, info)
 		want := tb
 		if keys != nil {
 			want, err = tb.SortBy(keys...)
@@ -99,9 +104,10 @@ func TestSheetLayout(t *testing.T) {
 	// Source: the format this package defines (sheet.go); rows sorted by
 	// key bytes, so "Les Pins" before "Étang" (L < É in UTF-8).
 	require.Equal(t, ""+
-		"# proofsheet sheet v1\n"+
+		"# proofsheet sheet v2\n"+
 		"# keys: house, day\n"+
 		"# rows: 3\n"+
+		"# match: by key\n"+
 		"house:string | day:date | tmax:float64 | kept:int64\n"+
 		"Les Pins | 2026-04-02 | ~ | 0\n"+
 		"Étang | 2026-04-01 | 21.5 | 140\n"+
@@ -119,7 +125,7 @@ func TestSheetLayout(t *testing.T) {
 	a, b := strings.Split(string(data), "\n"), strings.Split(string(data2), "\n")
 	diff := 0
 	for i := range a {
-		if a[i] != b[i] && !strings.HasPrefix(a[i], "# keys") {
+		if a[i] != b[i] && !strings.HasPrefix(a[i], "# keys") && !strings.HasPrefix(a[i], "# match") {
 			diff++
 		}
 	}
@@ -160,15 +166,24 @@ func TestSheetRefusals(t *testing.T) {
 	_, err = EncodeTable(fixtures.MustParse(t, "a:int64\n1\n"), []string{"nope"})
 	require.ErrorContains(t, err, "nope")
 
-	good := "# proofsheet sheet v1\n# keys: -\n# rows: 1\na:int64\n1\n"
+	good := "# proofsheet sheet v2\n# keys: -\n# rows: 1\n# match: by position\na:int64\n1\n"
 	cases := []struct{ name, text, want string }{
 		{"not a sheet", "a:int64\n1\n", "not a golden table file"},
-		{"newer version", strings.Replace(good, "v1", "v2", 1), "newer"},
-		{"bad version", strings.Replace(good, "v1", "vx", 1), "bad format version"},
+		{"newer version", strings.Replace(good, "v2", "v3", 1), "newer"},
+		{"no match line", strings.Replace(good, "# match: by position\n", "", 1), "no \"# match:\""},
+		{"bad match", strings.Replace(good, "by position", "by luck", 1), "f.gold.tbl:4: match: want by key"},
+		{"key match without keys", strings.Replace(good, "by position", "by key", 1), "names no key"},
+		{"keys without key match", strings.Replace(good, "# keys: -", "# keys: a", 1), "not by key"},
+		{"bad tol", strings.Replace(good, "# match: by position\n", "# match: by position\n# tol: a=abs:-1\n", 1), "f.gold.tbl:5: tol: abs:-1: want a finite number"},
+		{"bad text rule", strings.Replace(good, "# match: by position\n", "# match: by position\n# text: a=shout\n", 1), "unknown normalisation"},
+		{"bad switch", strings.Replace(good, "# match: by position\n", "# match: by position\n# compare: lenient\n", 1), "unknown switch \"lenient\""},
+		{"unknown metadata", strings.Replace(good, "# match: by position\n", "# match: by position\n# tols: a=abs:1\n", 1), "unknown metadata"},
+		{"empty ignore", strings.Replace(good, "# match: by position\n", "# match: by position\n# ignore: -\n", 1), "no column named"},
+		{"bad version", strings.Replace(good, "v2", "vx", 1), "bad format version"},
 		{"no rows line", strings.Replace(good, "# rows: 1\n", "", 1), "no \"# rows:\""},
 		{"bad rows", strings.Replace(good, "# rows: 1", "# rows: many", 1), "want a count"},
 		{"cut short", strings.Replace(good, "# rows: 1", "# rows: 2", 1), "says rows: 2 but has 1"},
-		{"bad cell", strings.Replace(good, "\n1\n", "\nx\n", 1), ":5:"},
+		{"bad cell", strings.Replace(good, "\n1\n", "\nx\n", 1), ":6:"},
 		{"bad keys", strings.Replace(good, "# keys: -", `# keys: "a`, 1), "closing quote"},
 	}
 	for _, c := range cases {
@@ -179,4 +194,10 @@ func TestSheetRefusals(t *testing.T) {
 	}
 	_, _, err = DecodeTable("f", []byte(good))
 	require.NoError(t, err)
+	// Version 1 files still read; metadata other than keys and rows is a
+	// comment there.
+	v1 := "# proofsheet sheet v1\n# keys: a\n# rows: 1\n# note: by hand\na:int64\n1\n"
+	_, info, err := DecodeTable("f", []byte(v1))
+	require.NoError(t, err)
+	require.Equal(t, SheetInfo{Version: 1, Keys: []string{"a"}, Rows: 1, Rules: assert.Rules{Match: assert.MatchByKey, Keys: []string{"a"}}}, info)
 }

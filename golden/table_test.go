@@ -66,9 +66,11 @@ func TestTableCheckLifecycle(t *testing.T) {
 	stored := readFile(t, path)
 	// Rows are stored sorted by the key, whatever order got had.
 	require.Equal(t, ""+
-		"# proofsheet sheet v1\n"+
+		"# proofsheet sheet v2\n"+
 		"# keys: house, day\n"+
 		"# rows: 3\n"+
+		"# match: by key\n"+
+		"# tol: *=abs:1e-09\n"+
 		"house:string | day:date | tmin:float64 | tmax:float64 | tmean:float64 | kept:int64 | dropped:int64\n"+
 		"Les Pins | 2026-04-01 | 7.5 | 19.25 | 13.375 | 144 | 0\n"+
 		"Étang | 2026-04-01 | 8.75 | 21.5 | 15.125 | 140 | 4\n"+
@@ -80,9 +82,18 @@ func TestTableCheckLifecycle(t *testing.T) {
 	ok, ft = check("noise", dailyOpts...)
 	require.True(t, ok, ft.failures())
 
-	ok, ft = check("noise") // no tolerance: the noise is a difference
+	// With no rules of its own the check compares under the stored ones.
+	ok, ft = check("noise")
+	require.True(t, ok, ft.failures())
+	require.Empty(t, ft.logs)
+
+	// Rules that differ from the stored ones are used and reported: with
+	// no tolerance the noise is a difference.
+	ok, ft = check("noise", assert.ByKey("house", "day"))
 	require.False(t, ok)
 	require.Contains(t, ft.failures(), "tmean")
+	require.Contains(t, ft.failures(), "Note: rules differ from the stored ones: only stored: *=abs:1e-09; compared under the given rules")
+	require.Equal(t, []string{"golden: " + displayPath(path) + ": rules differ from the stored ones: only stored: *=abs:1e-09; compared under the given rules; an update stores them"}, ft.logs)
 
 	ok, ft = check("change", dailyOpts...)
 	require.False(t, ok)
@@ -113,7 +124,7 @@ func TestTableUpdateWithinToleranceLeavesFile(t *testing.T) {
 	quietEnv(t, true)
 	s := tempStore(t)
 	path := filepath.Join(s.Root, "daily.gold.tbl")
-	data, err := EncodeTable(daily(t, "base"), assert.KeyColumns(dailyOpts...))
+	data, err := EncodeTableRules(daily(t, "base"), assert.RulesOf(dailyOpts...))
 	require.NoError(t, err)
 	writeFile(t, path, string(data))
 	old := time.Date(2021, 3, 4, 5, 6, 7, 0, time.UTC)
@@ -222,4 +233,76 @@ func TestRealUpdateFlagTable(t *testing.T) {
 	require.Equal(t, 1, code, out)
 	require.Contains(t, out, "Not updated")
 	require.Equal(t, stored, readFile(t, path))
+}
+
+func TestTableStoredRules(t *testing.T) {
+	quietEnv(t, false)
+	s := tempStore(t)
+	path := filepath.Join(s.Root, "daily.gold.tbl")
+	check := func(variant string, opts ...assert.Option) (bool, *fakeT) {
+		ft := newFake(t)
+		defer ft.end()
+		return s.Table(ft, "daily", daily(t, variant), opts...), ft
+	}
+
+	// A version 1 file (written before rules were stored) still reads; a
+	// check with no rules matches rows by its keys.
+	v1 := "# proofsheet sheet v1\n# keys: house, day\n# rows: 3\n" +
+		"house:string | day:date | tmin:float64 | tmax:float64 | tmean:float64 | kept:int64 | dropped:int64\n" +
+		"Les Pins | 2026-04-01 | 7.5 | 19.25 | 13.375 | 144 | 0\n" +
+		"Étang | 2026-04-01 | 8.75 | 21.5 | 15.125 | 140 | 4\n" +
+		"Étang | 2026-04-02 | 9 | 20 | 14.5 | 138 | 6\n"
+	writeFile(t, path, v1)
+	ok, ft := check("reordered")
+	require.True(t, ok, ft.failures())
+	require.Empty(t, ft.logs)
+	ok, ft = check("noise")
+	require.False(t, ok, "a v1 file stores no tolerance")
+	// Given rules beyond the keys are used and reported.
+	ok, ft = check("noise", dailyOpts...)
+	require.True(t, ok, ft.failures())
+	require.Len(t, ft.logs, 1)
+	require.Contains(t, ft.logs[0], "the file stores no rules (format v1); compared under the given rules (rows by key house, day; *=abs:1e-09); an update stores them")
+	require.Equal(t, v1, readFile(t, path), "checking never writes")
+
+	// An update stores them, even though the table is equal under them.
+	*updateFlag = true
+	ok, ft = check("noise", dailyOpts...)
+	*updateFlag = false
+	require.True(t, ok, ft.failures())
+	stored := readFile(t, path)
+	require.Contains(t, stored, "# proofsheet sheet v2\n# keys: house, day\n# rows: 3\n# match: by key\n# tol: *=abs:1e-09\n")
+	require.Contains(t, stored, "| 15.125000000000002 |", "the update writes got")
+
+	// Now no flags are needed, and the same rules given again are silent.
+	ok, ft = check("base")
+	require.True(t, ok, ft.failures())
+	require.Empty(t, ft.logs)
+	ok, ft = check("base", dailyOpts...)
+	require.True(t, ok, ft.failures())
+	require.Empty(t, ft.logs)
+
+	// A wider tolerance given: used, reported, stored on update.
+	wide := []assert.Option{assert.ByKey("house", "day"), assert.Tol("*", 2, 0)}
+	ok, ft = check("change", wide...)
+	require.True(t, ok, ft.failures())
+	require.Equal(t, "golden: "+displayPath(path)+": rules differ from the stored ones: only stored: *=abs:1e-09 — only given: *=abs:2; compared under the given rules; an update stores them", ft.logs[0])
+	*updateFlag = true
+	ok, ft = check("change", wide...)
+	*updateFlag = false
+	require.True(t, ok, ft.failures())
+	require.Contains(t, readFile(t, path), "# tol: *=abs:2\n")
+	require.Contains(t, readFile(t, path), "| 22.5 |", "an update writes got")
+	ok, ft = check("change")
+	require.True(t, ok, ft.failures())
+
+	// Rows in any order, an ignored column and the switches survive the file.
+	all := []assert.Option{assert.AnyRowOrder(), assert.IgnoreColumns("kept"), assert.NormText("house", assert.NFC), assert.LooseTypes(), assert.NaNIsNull(), assert.AnyColumnOrder(), assert.TimeTol("day", 24*time.Hour)}
+	data, err := EncodeTableRules(daily(t, "base"), assert.RulesOf(all...))
+	require.NoError(t, err)
+	require.Contains(t, string(data), "# keys: -\n# rows: 3\n# match: in any order\n# tol: day=time:24h0m0s\n# ignore: kept\n# text: house=nfc\n# compare: any-column-order, loose-types, nan-is-null\n")
+	_, info, err := DecodeTable("x", data)
+	require.NoError(t, err)
+	require.True(t, info.HasRules)
+	require.True(t, assert.RulesOf(all...).Equal(info.Rules), "%v", info.Rules)
 }

@@ -128,7 +128,7 @@ func TestReviewAgainstGit(t *testing.T) {
 	require.True(t, strings.HasPrefix(r.stdout, "## Golden file review\n\n**5 golden files differ: 3 changed, 1 new, 1 removed; 1 unchanged within tolerance** — against `HEAD ("), r.stdout)
 	require.Contains(t, r.stdout, "| `report/testdata/daily/house.gold.tbl` | **changed** | table | 3 | 2 differing cells in 1 row; largest Δabs 1 (kept) |")
 	require.Contains(t, r.stdout, "| `Étang` | `2026-04-01` | `tmax` | `21.5` | `22` |")
-	require.Contains(t, r.stdout, "$.gdd[\"Étang\"]: got 121 want 120.5")
+	require.Contains(t, r.stdout, "$.gdd[\"Étang\"]: before 120.5, after 121")
 
 	// Without the tolerance the float noise is a change.
 	r = runBin(t, repo, noEnv, "review", "--format", "text")
