@@ -64,6 +64,12 @@ type comparison struct {
 	keyCols   []*colCmp // key columns (ByKey), in key order
 	pairs     pairing
 	reorder   *reorder // keyed pairings of large tables: got rows by want range
+	// missing and extra are the listed rows present on one side only
+	// (all of them when the listing has no cap); a positional comparison
+	// lists a run of rows instead, from tailFrom.
+	missing, extra []int32
+	tail           bool
+	tailFrom       int
 }
 
 // checkNames reports options that name columns neither table has.
@@ -315,43 +321,28 @@ func (c *comparison) run() {
 func (c *comparison) matchByPosition() {
 	nw, ng := c.want.NumRows(), c.got.NumRows()
 	c.pairs = pairing{n: min(nw, ng)}
-	for i := ng; i < nw; i++ {
-		c.addMissing(i)
-	}
-	for i := nw; i < ng; i++ {
-		c.addExtra(i)
-	}
+	c.d.Missing.Count, c.d.Extra.Count = max(nw-ng, 0), max(ng-nw, 0)
+	c.tail, c.tailFrom = true, min(nw, ng)
 }
 
 func (c *comparison) addMissing(wi int) {
 	c.d.Missing.Count++
-	if !c.d.listFull(len(c.d.Missing.Rows)) {
-		c.d.Missing.Rows = append(c.d.Missing.Rows, RowRef{Want: wi, Got: -1, Key: c.keyText(WantSide, wi), Cells: rowCells(c.want, wi)})
+	if !c.d.listFull(len(c.missing)) {
+		c.missing = append(c.missing, int32(wi))
 	}
 }
 
 func (c *comparison) addExtra(gi int) {
 	c.d.Extra.Count++
-	if !c.d.listFull(len(c.d.Extra.Rows)) {
-		c.d.Extra.Rows = append(c.d.Extra.Rows, RowRef{Want: -1, Got: gi, Key: c.keyText(GotSide, gi), Cells: rowCells(c.got, gi)})
+	if !c.d.listFull(len(c.extra)) {
+		c.extra = append(c.extra, int32(gi))
 	}
 }
 
 // keyText returns the literal spelling of a row's key cells, nil when rows
 // are not keyed.
 func (c *comparison) keyText(side Side, row int) []string {
-	if len(c.keyCols) == 0 || row < 0 {
-		return nil
-	}
-	out := make([]string, len(c.keyCols))
-	for i, k := range c.keyCols {
-		col := k.wc
-		if side == GotSide {
-			col = k.gc
-		}
-		out[i] = fixtures.LiteralCell(col, row)
-	}
-	return out
+	return (&tablesRef{keyCols: c.keyCols}).keyText(side, row)
 }
 
 func rowCells(t *fixtures.Table, row int) []string {
@@ -362,27 +353,17 @@ func rowCells(t *fixtures.Table, row int) []string {
 	return out
 }
 
-// rowRef names the rows of pair slot p.
-func (c *comparison) rowRef(p int) RowRef {
-	if p < 0 {
-		return RowRef{Want: -1, Got: -1}
-	}
-	wi, gi := c.pairs.at(p)
-	return RowRef{Want: wi, Got: gi, Key: c.keyText(WantSide, wi)}
-}
-
-// collect turns the column results into the Diff's cells and summaries.
+// collect turns the column results into the Diff's cells, rows and
+// summaries.
 func (c *comparison) collect(results []*colResult) {
 	d := c.d
-	type hit struct{ slot, col int }
-	var hits []hit
+	ref := &tablesRef{want: c.want, got: c.got, cols: c.cols, keyCols: c.keyCols, pairs: c.pairs}
+	cells := &cellSource{t: ref, bits: make([][]uint64, len(results))}
 	var rows []uint64
 	for j, r := range results {
 		cc := c.cols[j]
 		d.CellsDiffering += r.differing
-		for _, p := range r.first {
-			hits = append(hits, hit{int(p), j})
-		}
+		cells.bits[j] = r.rows
 		if r.rows != nil {
 			if rows == nil {
 				rows = make([]uint64, len(r.rows))
@@ -392,29 +373,29 @@ func (c *comparison) collect(results []*colResult) {
 			}
 		}
 		s := ColumnSummary{Name: cc.name, WantType: cc.wc.Type(), GotType: cc.gc.Type(), Rule: cc.ruleText(), Differing: r.differing,
-			HasDelta: cc.hasDelta(), MaxAbs: r.maxAbs, MaxRel: r.maxRel, MaxAbsAt: c.rowRef(r.absAt), MaxRelAt: c.rowRef(r.relAt)}
+			HasDelta: cc.hasDelta(), MaxAbs: r.maxAbs, MaxRel: r.maxRel, MaxAbsAt: ref.rowRef(r.absAt), MaxRelAt: ref.rowRef(r.relAt)}
 		d.Columns = append(d.Columns, s)
 	}
 	for _, w := range rows {
 		d.RowsDiffering += popcount(w)
 	}
-	sort.Slice(hits, func(a, b int) bool {
-		if hits[a].slot != hits[b].slot {
-			return hits[a].slot < hits[b].slot
+	cells.n = d.CellsDiffering
+	if d.Limit >= 0 {
+		cells.n = min(cells.n, d.Limit)
+	}
+	hold := c.cfg.holdUpTo
+	d.Cells = listing[CellDiff](cells, hold)
+	listed := func(count int) int {
+		if d.Limit >= 0 {
+			return min(count, d.Limit)
 		}
-		return hits[a].col < hits[b].col
-	})
-	if d.Limit >= 0 && len(hits) > d.Limit {
-		hits = hits[:d.Limit]
+		return count
 	}
-	for _, h := range hits {
-		cc := c.cols[h.col]
-		wi, gi := c.pairs.at(h.slot)
-		d.Cells = append(d.Cells, CellDiff{Row: c.rowRef(h.slot), Column: cc.name,
-			Want: cellOf(cc.wc, wi), Got: cellOf(cc.gc, gi), Delta: cc.delta(wi, gi)})
+	if c.tail {
+		d.Missing.Rows = listing[RowRef](&rowSource{t: ref, side: WantSide, first: c.tailFrom, n: listed(d.Missing.Count)}, hold)
+		d.Extra.Rows = listing[RowRef](&rowSource{t: ref, side: GotSide, first: c.tailFrom, n: listed(d.Extra.Count)}, hold)
+	} else {
+		d.Missing.Rows = listing[RowRef](&rowSource{t: ref, side: WantSide, rows: c.missing, n: len(c.missing)}, hold)
+		d.Extra.Rows = listing[RowRef](&rowSource{t: ref, side: GotSide, rows: c.extra, n: len(c.extra)}, hold)
 	}
-}
-
-func cellOf(col *fixtures.Column, row int) Cell {
-	return Cell{Text: fixtures.LiteralCell(col, row), Kind: col.Kind(), Null: col.IsNull(row), Value: col.Value(row)}
 }

@@ -180,11 +180,11 @@ func TestColumnSummaries(t *testing.T) {
 	require.Equal(t, "abs 0.01", v.Rule)
 	// The within-tolerance cell counts toward the maximum only if larger;
 	// here the listed cells are rows 1 and 2.
-	require.Len(t, d.Cells, 2)
-	require.Equal(t, 1, d.Cells[0].Row.Want)
-	require.Equal(t, "20", d.Cells[0].Want.Text)
-	require.Equal(t, "20.5", d.Cells[0].Got.Text)
-	require.InDelta(t, 0.5, d.Cells[0].Delta.Abs, 1e-12)
+	require.Equal(t, 2, d.Cells.Len())
+	require.Equal(t, 1, d.Cells.At(0).Row.Want)
+	require.Equal(t, "20", d.Cells.At(0).Want.Text)
+	require.Equal(t, "20.5", d.Cells.At(0).Got.Text)
+	require.InDelta(t, 0.5, d.Cells.At(0).Delta.Abs, 1e-12)
 }
 
 func TestMaxDeltaCountsCellsWithinTolerance(t *testing.T) {
@@ -212,17 +212,17 @@ func TestCountsExactListingCapped(t *testing.T) {
 	want, got := b.MustBuild(t), g.MustBuild(t)
 	d := Compare(want, got)
 	require.Equal(t, 50, d.CellsDiffering)
-	require.Len(t, d.Cells, DefaultListLimit)
-	require.Equal(t, 0, d.Cells[0].Row.Want)
-	require.Equal(t, 38, d.Cells[19].Row.Want)
-	require.Len(t, Compare(want, got, ListLimit(5)).Cells, 5)
-	require.Len(t, Compare(want, got, ListLimit(-1)).Cells, 50)
+	require.Equal(t, DefaultListLimit, d.Cells.Len())
+	require.Equal(t, 0, d.Cells.At(0).Row.Want)
+	require.Equal(t, 38, d.Cells.At(19).Row.Want)
+	require.Equal(t, 5, Compare(want, got, ListLimit(5)).Cells.Len())
+	require.Equal(t, 50, Compare(want, got, ListLimit(-1)).Cells.Len())
 	short, _ := want.Slice(0, 10), 0
 	d = Compare(want, short, ListLimit(3))
 	require.Equal(t, 90, d.Missing.Count)
-	require.Len(t, d.Missing.Rows, 3)
-	require.Equal(t, 10, d.Missing.Rows[0].Want)
-	require.Equal(t, []string{"10", "10"}, d.Missing.Rows[0].Cells)
+	require.Equal(t, 3, d.Missing.Rows.Len())
+	require.Equal(t, 10, d.Missing.Rows.At(0).Want)
+	require.Equal(t, []string{"10", "10"}, d.Missing.Rows.At(0).Cells)
 }
 
 func TestByKey(t *testing.T) {
@@ -245,16 +245,16 @@ func TestByKey(t *testing.T) {
 			Étang | 2026-04-02 | 19
 			"Les Pins" | 2026-04-01 | 18.5
 			Étang | 2026-04-01 | 21.5`, nil, counts{cells: 1}, func(t *testing.T, d *Diff) {
-			require.Equal(t, []string{"Les Pins", "2026-04-01"}, d.Cells[0].Row.Key)
-			require.Equal(t, 2, d.Cells[0].Row.Want)
-			require.Equal(t, 1, d.Cells[0].Row.Got)
+			require.Equal(t, []string{"Les Pins", "2026-04-01"}, d.Cells.At(0).Row.Key)
+			require.Equal(t, 2, d.Cells.At(0).Row.Want)
+			require.Equal(t, 1, d.Cells.At(0).Row.Got)
 		}},
 		{"missing and extra by key", `house:string | day:date | tmax:float64
 			Étang | 2026-04-01 | 21.5
 			Étang | 2026-04-03 | 19`, nil, counts{missing: 2, extra: 1}, func(t *testing.T, d *Diff) {
-			require.Equal(t, []string{"Étang", "2026-04-02"}, d.Missing.Rows[0].Key)
-			require.Equal(t, []string{"Étang", "2026-04-03"}, d.Extra.Rows[0].Key)
-			require.Equal(t, 1, d.Extra.Rows[0].Got)
+			require.Equal(t, []string{"Étang", "2026-04-02"}, d.Missing.Rows.At(0).Key)
+			require.Equal(t, []string{"Étang", "2026-04-03"}, d.Extra.Rows.At(0).Key)
+			require.Equal(t, 1, d.Extra.Rows.At(0).Got)
 		}},
 		{"repeated key in got", `house:string | day:date | tmax:float64
 			Étang | 2026-04-01 | 21.5
@@ -267,7 +267,7 @@ func TestByKey(t *testing.T) {
 			require.Equal(t, []string{"Étang", "2026-04-01"}, k.Key)
 			require.Equal(t, []int{0, 3}, k.Rows)
 			require.Equal(t, 2, k.Count)
-			require.Equal(t, 3, d.Extra.Rows[0].Got)
+			require.Equal(t, 3, d.Extra.Rows.At(0).Got)
 		}},
 		{"tolerance applies to non-key cells", `house:string | day:date | tmax:float64
 			Étang | 2026-04-02 | 19.01
@@ -304,9 +304,9 @@ func TestByKeyRepeatedOnBothSides(t *testing.T) {
 	// Rows with a repeated key pair in order of appearance: want (1,11)
 	// with got (1,12); want (2,22) has no partner.
 	require.Equal(t, counts{cells: 1, missing: 1, extra: 2, dupWant: 2, dupGot: 3}, countsOf(d), d.Text())
-	require.Equal(t, "11", d.Cells[0].Want.Text)
-	require.Equal(t, "12", d.Cells[0].Got.Text)
-	require.Equal(t, 4, d.Missing.Rows[0].Want)
+	require.Equal(t, "11", d.Cells.At(0).Want.Text)
+	require.Equal(t, "12", d.Cells.At(0).Got.Text)
+	require.Equal(t, 4, d.Missing.Rows.At(0).Want)
 	var sides []string
 	for _, k := range d.Duplicates.Keys {
 		sides = append(sides, string(k.Side)+":"+strings.Join(k.Key, ","))
@@ -335,10 +335,10 @@ func TestKeyedMatchingAtScale(t *testing.T) {
 	gb.Row("extra", 0, 0.0)
 	d := Compare(wb.MustBuild(t), gb.MustBuild(t), ByKey("id", "n"))
 	require.Equal(t, counts{cells: 50, missing: 1, extra: 1}, countsOf(d))
-	require.Equal(t, 777, d.Missing.Rows[0].Want)
-	require.Equal(t, 0, d.Cells[0].Row.Want)
-	require.Equal(t, n-2, d.Cells[0].Row.Got) // got is reversed and lacks one row
-	require.Equal(t, 1000, d.Cells[1].Row.Want)
+	require.Equal(t, 777, d.Missing.Rows.At(0).Want)
+	require.Equal(t, 0, d.Cells.At(0).Row.Want)
+	require.Equal(t, n-2, d.Cells.At(0).Row.Got) // got is reversed and lacks one row
+	require.Equal(t, 1000, d.Cells.At(1).Row.Want)
 }
 
 func itoa(i int) string { return fixtures.FormatFloat(float64(i)) }
@@ -609,7 +609,7 @@ func TestAnyRowOrderLargeGroups(t *testing.T) {
 	gb.Row(9999.0)
 	d := Compare(wb.MustBuild(t), gb.MustBuild(t), AnyRowOrder(), Tol("v", 0.01, 0))
 	require.Equal(t, counts{extra: 1}, countsOf(d), d.Text())
-	require.Equal(t, n, d.Extra.Rows[0].Got)
+	require.Equal(t, n, d.Extra.Rows.At(0).Got)
 }
 
 func TestParallelMatchesSequential(t *testing.T) {
@@ -634,7 +634,7 @@ func TestParallelMatchesSequential(t *testing.T) {
 	require.Equal(t, 5, d.CellsDiffering)
 	require.Equal(t, 5, d.RowsDiffering)
 	var rows []int
-	for _, c := range d.Cells {
+	for _, c := range d.Cells.All() {
 		rows = append(rows, c.Row.Want)
 	}
 	require.Equal(t, []int{3, taskSlots - 1, taskSlots, taskSlots + 17, n - 1}, rows)
@@ -684,7 +684,7 @@ func TestNullsInEveryKind(t *testing.T) {
 	require.True(t, Compare(want, same).Equal())
 	d := Compare(want, swapped)
 	require.Equal(t, 16, d.CellsDiffering)
-	for _, c := range d.Cells {
+	for _, c := range d.Cells.All() {
 		require.False(t, c.Delta.Has, c.Column)
 		require.NotEqual(t, c.Want.Null, c.Got.Null)
 	}
@@ -738,10 +738,10 @@ func TestKeyedLargeAgreesWithSortedPositional(t *testing.T) {
 		require.Equal(t, p.MaxAbs, k.MaxAbs, k.Name)
 		require.Equal(t, p.MaxAbsAt.Want, k.MaxAbsAt.Want, k.Name)
 	}
-	for j := range keyed.Cells {
-		require.Equal(t, positional.Cells[j].Row.Want, keyed.Cells[j].Row.Want)
-		require.Equal(t, positional.Cells[j].Column, keyed.Cells[j].Column)
-		require.Equal(t, positional.Cells[j].Got.Text, keyed.Cells[j].Got.Text)
+	for j := range keyed.Cells.All() {
+		require.Equal(t, positional.Cells.At(j).Row.Want, keyed.Cells.At(j).Row.Want)
+		require.Equal(t, positional.Cells.At(j).Column, keyed.Cells.At(j).Column)
+		require.Equal(t, positional.Cells.At(j).Got.Text, keyed.Cells.At(j).Got.Text)
 	}
 	// Rows missing from got leave holes in the reordered buffers; they must
 	// not show up as differing cells.
@@ -778,8 +778,8 @@ func TestULPDeltaIsReported(t *testing.T) {
 		1.0000000000000007`) // 3 ULPs above 1 (ULP of 1 is 2^-52 ≈ 2.22e-16)
 	d := Compare(want, got, ULPs("v", 2))
 	require.Equal(t, 1, d.CellsDiffering)
-	require.True(t, d.Cells[0].Delta.HasULPs)
-	require.Equal(t, uint64(3), d.Cells[0].Delta.ULPs)
+	require.True(t, d.Cells.At(0).Delta.HasULPs)
+	require.Equal(t, uint64(3), d.Cells.At(0).Delta.ULPs)
 	require.Equal(t, "2 ULPs", d.Columns[0].Rule)
 	require.Contains(t, d.Text(), "(3 ulp)")
 	require.True(t, Compare(want, got, ULPs("v", 3)).Equal())

@@ -11,7 +11,15 @@ import (
 //
 // Counts (CellsDiffering, Missing.Count, Column.Differing, …) are exact.
 // Listings (Cells, Missing.Rows, …) hold at most Limit entries each, in a
-// fixed order, so a Diff of the same tables is always the same.
+// fixed order, so a Diff of the same tables is always the same. A long
+// listing is kept as row and column numbers into the compared tables and
+// its entries are built as they are read (see Listing); the renderers
+// (WriteText, WriteMarkdown, WriteJSON, WriteHTML) write such listings as
+// they go, so even a Diff that lists every cell of two large tables
+// renders in little memory.
+//
+// Code that computes a Diff elsewhere (in a SQL engine, say) fills the
+// fields directly; listings are built with ListOf.
 type Diff struct {
 	// WantRows and GotRows are the row counts of the two tables (0 for a
 	// nil table).
@@ -51,8 +59,9 @@ type Diff struct {
 	CellsDiffering, RowsDiffering int
 
 	// Cells lists the first Limit differing cells, by row (in want's
-	// order) and then by column (in want's order).
-	Cells []CellDiff
+	// order; for rows matched as a multiset, in the order of the pairs)
+	// and then by column (in want's order).
+	Cells Listing[CellDiff]
 
 	// Columns summarises every compared column, in want's order: how its
 	// cells were compared, how many differ and the largest deltas.
@@ -133,7 +142,7 @@ type RowList struct {
 	// Count is the exact number of such rows.
 	Count int
 	// Rows lists the first Limit of them in their table's order.
-	Rows []RowRef
+	Rows Listing[RowRef]
 }
 
 // RowRef names a row: by its 0-based index in each table (-1 on the side

@@ -30,6 +30,17 @@
 //			assert.Tol("*", 1e-9, 0))
 //	}
 //
+// # Listings and large diffs
+//
+// Counts in a Diff are always exact; its listings (Cells, Missing.Rows,
+// Extra.Rows) hold at most ListLimit entries each. A Listing reads like a
+// slice (Len, At, All). A long listing — ListLimit(-1) on large tables —
+// is kept as row and column numbers into the tables and each entry is
+// built when it is read; WriteText, WriteMarkdown, WriteJSON and WriteHTML
+// write a report to an io.Writer as they read it, so listing every one of
+// millions of differing cells takes little memory. Code that computes a
+// Diff elsewhere builds its listings with ListOf.
+//
 // # Matching rows
 //
 // By default row i of want pairs with row i of got, and a longer table's

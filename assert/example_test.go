@@ -2,6 +2,7 @@ package assert_test
 
 import (
 	"fmt"
+	"os"
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
@@ -84,7 +85,7 @@ func ExampleByKey() {
 		Étang        | 2026-04-01 | 14.2               | 4.2
 	`)
 	d := assert.Compare(want, got, assert.ByKey("house", "day"), assert.Tol("*", 1e-9, 0))
-	fmt.Println(d.CellsDiffering, d.Cells[0].Row.Key, d.Cells[0].Column, d.Cells[0].Want.Text, d.Cells[0].Got.Text)
+	fmt.Println(d.CellsDiffering, d.Cells.At(0).Row.Key, d.Cells.At(0).Column, d.Cells.At(0).Want.Text, d.Cells.At(0).Got.Text)
 	fmt.Print(d.Text())
 	// Output:
 	// 1 [Étang 2026-04-02] gdd 9.3 9.4
@@ -184,4 +185,77 @@ func ExampleDiff_JSON() {
 	//   "duplicates": [],
 	//   "limit": 0
 	// }
+}
+
+// A Diff that lists every differing cell of large tables is written as it
+// is read: WriteText (and WriteMarkdown, WriteJSON, WriteHTML) build one
+// cell at a time, so the listing never has to fit in memory.
+func ExampleDiff_WriteText() {
+	want, _ := fixtures.Parse(`
+		house:string | tmax:float64
+		Étang        | 21.5
+		Verger       | 19.25
+		Source       | 17
+	`)
+	got, _ := fixtures.Parse(`
+		house:string | tmax:float64
+		Étang        | 21.75
+		Verger       | 19.25
+		Source       | 17.5
+	`)
+	d := assert.Compare(want, got, assert.ByKey("house"), assert.ListLimit(-1))
+	for _, c := range d.Cells.All() {
+		fmt.Println(c.Row.Key, c.Column, c.Want.Text, "→", c.Got.Text)
+	}
+	if err := d.WriteText(os.Stdout, assert.TextStyle{}); err != nil {
+		fmt.Println(err)
+	}
+	// Output:
+	// [Étang] tmax 21.5 → 21.75
+	// [Source] tmax 17 → 17.5
+	// tables differ: 2 differing cells in 2 rows
+	// want 3 rows, got 3 rows; rows matched by key (house)
+	//
+	// differing cells (2)
+	//   house   column  want  got    Δabs    Δrel
+	//   Étang   tmax    21.5  21.75  0.25  0.0115
+	//   Source  tmax    17    17.5    0.5  0.0286
+	//
+	// columns
+	//   column  compared  differing  max Δabs  at        max Δrel  at
+	//   tmax    exact             2       0.5  (Source)    0.0286  (Source)
+}
+
+// Code that computes a Diff elsewhere — in a SQL engine, say — fills its
+// fields and builds its listings with ListOf; the renderers read it like a
+// Diff from Compare.
+func ExampleListOf() {
+	d := &assert.Diff{
+		WantRows: 2, GotRows: 2, Match: assert.MatchByKey, Keys: []string{"house"},
+		WantColumns: []string{"house", "kept"}, GotColumns: []string{"house", "kept"}, Compared: []string{"house", "kept"},
+		CellsDiffering: 1, RowsDiffering: 1, Limit: assert.DefaultListLimit,
+	}
+	d.Cells = assert.ListOf(assert.CellDiff{
+		Row:    assert.RowRef{Want: 1, Got: 0, Key: []string{"Verger"}},
+		Column: "kept",
+		Want:   assert.Cell{Text: "140", Kind: fixtures.KindInt64},
+		Got:    assert.Cell{Text: "139", Kind: fixtures.KindInt64},
+		Delta:  assert.Delta{Has: true, Abs: 1, Rel: 1.0 / 140},
+	})
+	fmt.Print(d.Markdown())
+	// Output:
+	// **Tables differ: 1 differing cell in 1 row**
+	//
+	// | | want | got |
+	// |---|--:|--:|
+	// | rows | 2 | 2 |
+	// | columns | 2 | 2 |
+	//
+	// Rows matched by key (house).
+	//
+	// #### Differing cells (1)
+	//
+	// | `house` | column | want | got | Δabs | Δrel |
+	// |---|---|---|---|---|---|
+	// | `Verger` | `kept` | `140` | `139` | 1 | 0.00714 |
 }

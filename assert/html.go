@@ -1,8 +1,10 @@
 package assert
 
 import (
+	"bufio"
 	"fmt"
 	"html"
+	"io"
 	"strconv"
 	"strings"
 )
@@ -23,16 +25,25 @@ const HTMLChangedCell = "ps-changed"
 // style and no script; its classes all start with "ps-". The output is the
 // same for the same Diff.
 func (d *Diff) HTML() string {
+	var b strings.Builder
+	_ = d.WriteHTML(&b) // a strings.Builder does not fail
+	return b.String()
+}
+
+// WriteHTML writes what HTML returns to w as it goes, so that a listing of
+// millions of cells needs little memory. It returns the first error of w.
+func (d *Diff) WriteHTML(w io.Writer) error {
 	if d == nil {
 		d = &Diff{}
 	}
-	h := &htmlWriter{}
-	h.open("div", "ps-diff", "data-equal", strconv.FormatBool(d.Equal()), "data-cells", strconv.Itoa(len(d.Cells)))
+	bw := bufio.NewWriterSize(w, 64<<10)
+	h := &htmlWriter{b: bw}
+	h.open("div", "ps-diff", "data-equal", strconv.FormatBool(d.Equal()), "data-cells", strconv.Itoa(d.Cells.Len()))
 	h.elem("p", "ps-verdict", capitalise(d.headline()))
 	h.elem("p", "ps-match", d.matchLine())
 	if d.Equal() {
 		h.close("div")
-		return h.String()
+		return bw.Flush()
 	}
 	if len(d.Problems) > 0 {
 		h.heading("Problems")
@@ -55,8 +66,8 @@ func (d *Diff) HTML() string {
 		}
 		h.endTable()
 	}
-	if len(d.Cells) > 0 {
-		h.heading(fmt.Sprintf("Differing cells (%d%s)", d.CellsDiffering, shown(len(d.Cells), d.CellsDiffering)))
+	if d.Cells.Len() > 0 {
+		h.heading(fmt.Sprintf("Differing cells (%d%s)", d.CellsDiffering, shown(d.Cells.Len(), d.CellsDiffering)))
 		d.htmlGrid(h)
 	} else if d.CellsDiffering > 0 {
 		h.heading(fmt.Sprintf("Differing cells (%d, none listed)", d.CellsDiffering))
@@ -107,43 +118,18 @@ func (d *Diff) HTML() string {
 		h.endTable()
 	}
 	h.close("div")
-	return h.String()
+	return bw.Flush()
 }
 
 // htmlGrid writes the listed differing cells as a grid: one line per row
 // (keys or row index first), one column per column with a listed
-// difference, in want's column order.
+// difference, in want's column order. The cells of a row follow each
+// other in the listing, so the grid is written as the listing is read.
 func (d *Diff) htmlGrid(h *htmlWriter) {
-	type gridRow struct {
-		ref   RowRef
-		cells map[string]int // column → index in d.Cells
-	}
-	var rows []*gridRow
-	byRow := map[[2]int]*gridRow{}
-	used := map[string]bool{}
-	for i, c := range d.Cells {
-		id := [2]int{c.Row.Want, c.Row.Got}
-		r := byRow[id]
-		if r == nil {
-			r = &gridRow{ref: c.Row, cells: map[string]int{}}
-			byRow[id] = r
-			rows = append(rows, r)
-		}
-		r.cells[c.Column] = i
-		used[c.Column] = true
-	}
-	var cols []string
-	for _, name := range d.Compared {
-		if used[name] {
-			cols = append(cols, name)
-			delete(used, name)
-		}
-	}
-	for _, c := range d.Cells { // columns not among Compared (not expected), in listing order
-		if used[c.Column] {
-			cols = append(cols, c.Column)
-			delete(used, c.Column)
-		}
+	cols := listedColumns(d.Cells, d.Compared)
+	pos := make(map[string]int, len(cols))
+	for j, name := range cols {
+		pos[name] = j
 	}
 	keyed := d.Match == MatchByKey && len(d.Keys) > 0
 	head := []string{"row"}
@@ -151,25 +137,48 @@ func (d *Diff) htmlGrid(h *htmlWriter) {
 		head = append([]string(nil), d.Keys...)
 	}
 	h.table("ps-grid", append(head, cols...))
-	for _, r := range rows {
+	// One row of the grid: its cells by column, written when the next row
+	// starts. A column listed twice for one row keeps its first cell.
+	row := make([]string, len(cols))
+	have := make([]bool, len(cols))
+	var ref RowRef
+	open := false
+	var cell strings.Builder
+	flush := func() {
+		if !open {
+			return
+		}
 		h.raw("<tr>")
 		if keyed {
-			for _, k := range r.ref.Key {
+			for _, k := range ref.Key {
 				h.elem("th", "ps-key", k)
 			}
 		} else {
-			h.elem("th", "ps-key", d.rowIndex(r.ref))
+			h.elem("th", "ps-key", d.rowIndex(ref))
 		}
-		for _, col := range cols {
-			i, ok := r.cells[col]
-			if !ok {
+		for j := range cols {
+			if !have[j] {
 				h.raw(`<td class="ps-same"></td>`)
 				continue
 			}
-			d.htmlCell(h, d.Cells[i])
+			h.raw(row[j])
+			have[j] = false
 		}
 		h.raw("</tr>\n")
 	}
+	eachCell(d.Cells, func(_ int, c *CellDiff) bool {
+		if !open || c.Row.Want != ref.Want || c.Row.Got != ref.Got {
+			flush()
+			ref, open = RowRef{Want: c.Row.Want, Got: c.Row.Got, Key: c.Row.Key}, true
+		}
+		if j := pos[c.Column]; !have[j] {
+			cell.Reset()
+			d.htmlCell(&htmlWriter{b: &cell}, *c)
+			row[j], have[j] = cell.String(), true
+		}
+		return true
+	})
+	flush()
 	h.endTable()
 }
 
@@ -185,9 +194,7 @@ func (d *Diff) htmlCell(h *htmlWriter, c CellDiff) {
 		if !isTimeKind(c.Want.Kind) && !isTimeKind(c.Got.Kind) && c.Delta.Rel != 0 {
 			note += ", rel " + formatRel(c.Delta.Rel)
 		}
-	} else if c.Want.Kind.IsText() && c.Got.Kind.IsText() && !c.Want.Null && !c.Got.Null {
-		ws, _ := c.Want.Value.(string)
-		gs, _ := c.Got.Value.(string)
+	} else if ws, gs, ok := textPair(&c); ok {
 		if e, ok := textEdit(ws, gs, editStyle{}); ok {
 			note = e
 		}
@@ -213,9 +220,9 @@ func (d *Diff) htmlRows(h *htmlWriter, title, class string, l RowList, cols []st
 	if l.Count == 0 {
 		return
 	}
-	h.heading(fmt.Sprintf("%s (%d%s)", title, l.Count, shown(len(l.Rows), l.Count)))
+	h.heading(fmt.Sprintf("%s (%d%s)", title, l.Count, shown(l.Rows.Len(), l.Count)))
 	h.table("ps-rows "+class, append([]string{"row"}, cols...))
-	for _, r := range l.Rows {
+	for _, r := range l.Rows.All() {
 		idx := r.Want
 		if idx < 0 {
 			idx = r.Got
@@ -233,10 +240,11 @@ func (d *Diff) htmlRows(h *htmlWriter, title, class string, l RowList, cols []st
 // htmlWriter builds escaped HTML. Only its own literal markup is written
 // raw; every text and attribute value goes through html.EscapeString.
 type htmlWriter struct {
-	b strings.Builder
+	b interface {
+		io.Writer
+		io.StringWriter
+	}
 }
-
-func (h *htmlWriter) String() string { return h.b.String() }
 
 func (h *htmlWriter) raw(s string) { h.b.WriteString(s) }
 

@@ -74,9 +74,9 @@ func TestHTMLMarksEveryDifferingCell(t *testing.T) {
 		t.Run(name, func(t *testing.T) {
 			nodes := parseFragment(t, d.HTML())
 			changed := byClass(nodes, HTMLChangedCell)
-			require.Len(t, changed, len(d.Cells))
-			require.Equal(t, d.CellsDiffering, len(d.Cells), "the fixture lists every cell")
-			for i, c := range d.Cells {
+			require.Len(t, changed, d.Cells.Len())
+			require.Equal(t, d.CellsDiffering, d.Cells.Len(), "the fixture lists every cell")
+			for i, c := range d.Cells.All() {
 				n := changed[i]
 				require.Equal(t, "td", n.name)
 				require.Equal(t, c.Column, n.attrs["data-column"])
@@ -134,8 +134,8 @@ func TestHTMLEscapesHostileText(t *testing.T) {
 	changed := byClass(nodes, HTMLChangedCell)
 	require.Len(t, changed, 4)
 	for i, h := range hostile {
-		require.Equal(t, h, d.Cells[i].Got.Value)
-		require.Contains(t, changed[i].text, d.Cells[i].Got.Text, "the text reads back as it was")
+		require.Equal(t, h, d.Cells.At(i).Got.Value)
+		require.Contains(t, changed[i].text, d.Cells.At(i).Got.Text, "the text reads back as it was")
 	}
 }
 

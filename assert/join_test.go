@@ -182,13 +182,13 @@ func TestKeyedCompareByEitherJoin(t *testing.T) {
 	require.Equal(t, sparse.Extra.Count, dense.Extra.Count)
 	require.Equal(t, sparse.Duplicates.GotKeys, dense.Duplicates.GotKeys)
 	require.Positive(t, dense.Duplicates.GotKeys)
-	for j := range dense.Cells {
-		require.Equal(t, sparse.Cells[j].Row.Want, dense.Cells[j].Row.Want)
-		require.Equal(t, sparse.Cells[j].Row.Got, dense.Cells[j].Row.Got)
-		require.Equal(t, sparse.Cells[j].Column, dense.Cells[j].Column)
+	for j := range dense.Cells.All() {
+		require.Equal(t, sparse.Cells.At(j).Row.Want, dense.Cells.At(j).Row.Want)
+		require.Equal(t, sparse.Cells.At(j).Row.Got, dense.Cells.At(j).Row.Got)
+		require.Equal(t, sparse.Cells.At(j).Column, dense.Cells.At(j).Column)
 	}
-	for j := range dense.Extra.Rows {
-		require.Equal(t, sparse.Extra.Rows[j].Got, dense.Extra.Rows[j].Got)
+	for j := range dense.Extra.Rows.All() {
+		require.Equal(t, sparse.Extra.Rows.At(j).Got, dense.Extra.Rows.At(j).Got)
 	}
 	for j := range dense.Duplicates.Keys {
 		require.Equal(t, sparse.Duplicates.Keys[j].Rows, dense.Duplicates.Keys[j].Rows)

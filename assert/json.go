@@ -1,9 +1,13 @@
 package assert
 
 import (
+	"bufio"
+	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"math"
+	"reflect"
 	"strconv"
 	"strings"
 
@@ -19,6 +23,16 @@ import (
 // is not a finite number (an infinity) is written as null. The output is
 // the same for the same Diff, and DiffFromJSON reads it back.
 func (d *Diff) JSON() ([]byte, error) {
+	var b bytes.Buffer
+	if err := d.WriteJSON(&b); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// WriteJSON writes what JSON returns to w as it goes, so that a listing of
+// millions of cells needs little memory. It returns the first error of w.
+func (d *Diff) WriteJSON(w io.Writer) error {
 	if d == nil {
 		d = &Diff{}
 	}
@@ -39,9 +53,6 @@ func (d *Diff) JSON() ([]byte, error) {
 		Problems:       orEmpty(d.Problems),
 		Schema:         []jsonSchema{},
 		Columns:        []jsonColumn{},
-		Cells:          []jsonCell{},
-		Missing:        jsonRows(d.Missing.Rows),
-		Extra:          jsonRows(d.Extra.Rows),
 		Duplicates:     []jsonDup{},
 		Limit:          d.Limit,
 	}
@@ -68,25 +79,105 @@ func (d *Diff) JSON() ([]byte, error) {
 		}
 		out.Columns = append(out.Columns, jc)
 	}
-	for _, c := range d.Cells {
-		jc := jsonCell{Row: *jsonRowOf(c.Row), Column: c.Column, Want: jsonCellOf(c.Want), Got: jsonCellOf(c.Got),
-			Abs: jsonNumOrNull(), Rel: jsonNumOrNull()}
-		if c.Delta.Has {
-			jc.Abs = jsonNum(c.Delta.Abs)
-			if !isTimeKind(c.Want.Kind) && !isTimeKind(c.Got.Kind) {
-				jc.Rel = jsonNum(c.Delta.Rel)
-			}
-		}
-		if c.Delta.HasULPs {
-			u := c.Delta.ULPs
-			jc.ULPs = &u
-		}
-		out.Cells = append(out.Cells, jc)
-	}
 	for _, k := range d.Duplicates.Keys {
 		out.Duplicates = append(out.Duplicates, jsonDup{Side: string(k.Side), Key: orEmpty(k.Key), Count: k.Count, Rows: orEmpty(k.Rows)})
 	}
-	return json.MarshalIndent(out, "", "  ")
+	// The object is written field by field in the order of jsonDiff, as
+	// json.MarshalIndent(out, "", "  ") would, with the listings streamed.
+	b := bufio.NewWriterSize(w, 64<<10)
+	var err error
+	first := true
+	field := func(name string) {
+		if first {
+			b.WriteString("{\n  ")
+			first = false
+		} else {
+			b.WriteString(",\n  ")
+		}
+		b.WriteString(`"` + name + `": `)
+	}
+	value := func(v any) {
+		if err != nil {
+			return
+		}
+		var x []byte
+		if x, err = json.MarshalIndent(v, "  ", "  "); err == nil {
+			b.Write(x)
+		}
+	}
+	list := func(n int, each func(func(v any) bool)) {
+		if n == 0 {
+			b.WriteString("[]")
+			return
+		}
+		b.WriteString("[\n    ")
+		i := 0
+		each(func(v any) bool {
+			if i > 0 {
+				b.WriteString(",\n    ")
+			}
+			i++
+			var x []byte
+			if x, err = json.MarshalIndent(v, "    ", "  "); err != nil {
+				return false
+			}
+			b.Write(x)
+			return true
+		})
+		b.WriteString("\n  ]")
+	}
+	rt := reflect.TypeOf(out)
+	rv := reflect.ValueOf(out)
+	for i := 0; i < rt.NumField(); i++ {
+		name, _, _ := strings.Cut(rt.Field(i).Tag.Get("json"), ",")
+		field(name)
+		switch name {
+		case "cells":
+			list(d.Cells.Len(), func(f func(v any) bool) {
+				eachCell(d.Cells, func(_ int, c *CellDiff) bool { return f(jsonCellOfDiff(c)) })
+			})
+		case "missing":
+			list(d.Missing.Rows.Len(), func(f func(v any) bool) {
+				for _, r := range d.Missing.Rows.All() {
+					if !f(jsonRowOf(r)) {
+						return
+					}
+				}
+			})
+		case "extra":
+			list(d.Extra.Rows.Len(), func(f func(v any) bool) {
+				for _, r := range d.Extra.Rows.All() {
+					if !f(jsonRowOf(r)) {
+						return
+					}
+				}
+			})
+		default:
+			value(rv.Field(i).Interface())
+		}
+	}
+	b.WriteString("\n}")
+	if err != nil {
+		return err
+	}
+	return b.Flush()
+}
+
+// jsonCellOfDiff is the JSON form of a listed cell.
+func jsonCellOfDiff(c *CellDiff) jsonCell {
+	jc := jsonCell{Row: *jsonRowOf(c.Row), Column: c.Column, Want: jsonCellOf(c.Want), Got: jsonCellOf(c.Got),
+		Abs: jsonNumOrNull(), Rel: jsonNumOrNull()}
+	if c.Delta.Has {
+		jc.Abs = jsonNum(c.Delta.Abs)
+		if !isTimeKind(c.Want.Kind) && !isTimeKind(c.Got.Kind) {
+			jc.Rel = jsonNum(c.Delta.Rel)
+		}
+	}
+	if c.Delta.HasULPs {
+		u := c.Delta.ULPs
+		jc.ULPs = &u
+	}
+	return jc
 }
 
 type jsonDiff struct {
@@ -246,8 +337,8 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 	d := &Diff{
 		WantRows: j.WantRows, GotRows: j.GotRows, Match: MatchMode(j.Match), Keys: j.Keys,
 		WantColumns: j.WantColumns, GotColumns: j.GotColumns, Compared: j.Compared, Problems: j.Problems,
-		Missing:        RowList{Count: j.MissingRows, Rows: rowsFromJSON(j.Missing)},
-		Extra:          RowList{Count: j.ExtraRows, Rows: rowsFromJSON(j.Extra)},
+		Missing:        RowList{Count: j.MissingRows, Rows: ListOf(rowsFromJSON(j.Missing)...)},
+		Extra:          RowList{Count: j.ExtraRows, Rows: ListOf(rowsFromJSON(j.Extra)...)},
 		Duplicates:     DuplicateList{WantKeys: j.DuplicateKeys.Want, GotKeys: j.DuplicateKeys.Got},
 		CellsDiffering: j.CellsDiffering, RowsDiffering: j.RowsDiffering, Limit: j.Limit,
 	}
@@ -281,6 +372,7 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 		}
 		d.Columns = append(d.Columns, cs)
 	}
+	var cells []CellDiff
 	for _, c := range j.Cells {
 		cd := CellDiff{Row: rowFromJSON(&c.Row), Column: c.Column}
 		var err error
@@ -302,8 +394,9 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 		if c.ULPs != nil {
 			cd.Delta.ULPs, cd.Delta.HasULPs = *c.ULPs, true
 		}
-		d.Cells = append(d.Cells, cd)
+		cells = append(cells, cd)
 	}
+	d.Cells = ListOf(cells...)
 	for _, k := range j.Duplicates {
 		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: k.Rows})
 	}

@@ -51,9 +51,7 @@ func (p pairing) sub(lo, hi int) pairing {
 // colResult is what comparing one column (or a range of its slots) found.
 type colResult struct {
 	_         [64]byte // keeps results of tasks on other goroutines off this cache line
-	limit     int
 	differing int
-	first     []int32  // slots of the first differing cells, at most limit
 	rows      []uint64 // bitmap of slots from rowsBase with a differing cell, nil if none
 	rowsBase  int      // first slot of the bitmap, a multiple of 64
 	nslots    int      // slots the bitmap covers
@@ -65,16 +63,13 @@ type colResult struct {
 	_         [64]byte
 }
 
-func newColResult(limit, base, nslots int) *colResult {
-	return &colResult{limit: limit, rowsBase: base, nslots: nslots, absAt: -1, relAt: -1}
+func newColResult(base, nslots int) *colResult {
+	return &colResult{rowsBase: base, nslots: nslots, absAt: -1, relAt: -1}
 }
 
 // hit records a differing cell at slot k.
 func (r *colResult) hit(k int) {
 	r.differing++
-	if r.limit < 0 || len(r.first) < r.limit {
-		r.first = append(r.first, int32(k))
-	}
 	if r.rows == nil {
 		r.rows = make([]uint64, (r.nslots+63)/64)
 	}
@@ -98,12 +93,6 @@ func (r *colResult) track(d Delta, k int) {
 // merge adds the result of the next range of slots.
 func (r *colResult) merge(o *colResult) {
 	r.differing += o.differing
-	for _, k := range o.first {
-		if r.limit >= 0 && len(r.first) >= r.limit {
-			break
-		}
-		r.first = append(r.first, k)
-	}
 	if o.rows != nil {
 		if r.rows == nil {
 			r.rows = make([]uint64, (r.nslots+63)/64)
@@ -137,7 +126,7 @@ func (c *comparison) compareColumns() []*colResult {
 	n := c.pairs.n
 	results := make([]*colResult, len(c.cols))
 	for j := range c.cols {
-		results[j] = newColResult(c.d.Limit, c.pairs.base, n)
+		results[j] = newColResult(c.pairs.base, n)
 	}
 	workers := runtime.GOMAXPROCS(0)
 	if workers <= 1 || n*len(c.cols) < parallelCells {
@@ -161,7 +150,7 @@ func (c *comparison) compareColumns() []*colResult {
 		}
 		for lo := 0; lo < n; lo += taskSlots {
 			hi := min(lo+taskSlots, n)
-			r := newColResult(c.d.Limit, c.pairs.base+lo, hi-lo)
+			r := newColResult(c.pairs.base+lo, hi-lo)
 			tasks = append(tasks, task{j, c.pairs.base + lo, c.pairs.base + hi, r})
 			perCol[j] = append(perCol[j], r)
 		}

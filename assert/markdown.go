@@ -1,7 +1,9 @@
 package assert
 
 import (
+	"bufio"
 	"fmt"
+	"io"
 	"strconv"
 	"strings"
 )
@@ -13,14 +15,24 @@ import (
 // text is shown in code spans with pipes escaped, so any value is safe in
 // a table.
 func (d *Diff) Markdown() string {
+	var b strings.Builder
+	_ = d.WriteMarkdown(&b) // a strings.Builder does not fail
+	return b.String()
+}
+
+// WriteMarkdown writes what Markdown returns to w as it goes, so that a
+// listing of millions of cells needs little memory (the text edits below
+// the table of cells are found in a second pass over the listing). It
+// returns the first error of w.
+func (d *Diff) WriteMarkdown(w io.Writer) error {
 	if d == nil {
 		d = &Diff{}
 	}
-	var b strings.Builder
-	p := func(format string, args ...any) { fmt.Fprintf(&b, format, args...) }
+	b := bufio.NewWriterSize(w, 64<<10)
+	p := func(format string, args ...any) { fmt.Fprintf(b, format, args...) }
 	if d.Equal() {
 		p("**Tables are equal** — %d rows, %d columns compared; %s.\n", d.WantRows, len(d.Compared), strings.TrimPrefix(d.matchLine(), d.sizeLine()))
-		return b.String()
+		return b.Flush()
 	}
 	p("**%s**\n\n", capitalise(d.headline()))
 	p("| | %s | %s |\n|---|--:|--:|\n| rows | %d | %d |\n| columns | %d | %d |\n\n", d.wantName(), d.gotName(), d.WantRows, d.GotRows, len(d.WantColumns), len(d.GotColumns))
@@ -38,7 +50,7 @@ func (d *Diff) Markdown() string {
 		}
 	}
 	if d.CellsDiffering > 0 {
-		p("\n#### Differing cells (%d%s)\n\n", d.CellsDiffering, mdShown(len(d.Cells), d.CellsDiffering))
+		p("\n#### Differing cells (%d%s)\n\n", d.CellsDiffering, mdShown(d.Cells.Len(), d.CellsDiffering))
 		keyed := d.Match == MatchByKey && len(d.Keys) > 0
 		head := []string{"row"}
 		if keyed {
@@ -49,15 +61,20 @@ func (d *Diff) Markdown() string {
 		}
 		head = append(head, "column", d.wantName(), d.gotName(), "Δabs", "Δrel")
 		p("| %s |\n|%s\n", strings.Join(head, " | "), strings.Repeat("---|", len(head)))
-		var edits []string
-		for _, c := range d.Cells {
-			var cells []string
+		edits := false
+		eachCell(d.Cells, func(_ int, c *CellDiff) bool {
+			b.WriteString("|")
+			cell := func(x string) {
+				b.WriteByte(' ')
+				b.WriteString(x)
+				b.WriteString(" |")
+			}
 			if keyed {
 				for _, k := range c.Row.Key {
-					cells = append(cells, mdCode(k))
+					cell(mdCode(k))
 				}
 			} else {
-				cells = append(cells, d.rowIndex(c.Row))
+				cell(d.rowIndex(c.Row))
 			}
 			abs, rel := "", ""
 			if c.Delta.Has {
@@ -66,26 +83,35 @@ func (d *Diff) Markdown() string {
 					rel = formatRel(c.Delta.Rel)
 				}
 			}
-			cells = append(cells, mdCode(c.Column), mdCode(c.Want.Text), mdCode(c.Got.Text), abs, rel)
-			p("| %s |\n", strings.Join(cells, " | "))
-			if c.Want.Kind.IsText() && c.Got.Kind.IsText() && !c.Want.Null && !c.Got.Null {
-				ws, _ := c.Want.Value.(string)
-				gs, _ := c.Got.Value.(string)
-				if e, ok := textEdit(ws, gs, editStyle{}); ok {
-					edits = append(edits, fmt.Sprintf("- %s, %s: %s", d.rowName(c.Row), mdCode(c.Column), mdCode(e)))
+			for _, x := range [...]string{mdCode(c.Column), mdCode(c.Want.Text), mdCode(c.Got.Text), abs, rel} {
+				cell(x)
+			}
+			b.WriteString("\n")
+			if !edits {
+				if ws, gs, ok := textPair(c); ok {
+					_, edits = textEdit(ws, gs, editStyle{})
 				}
 			}
-		}
-		if len(edits) > 0 {
-			p("\nText edits (⟦%s→%s⟧):\n\n%s\n", d.wantName(), d.gotName(), strings.Join(edits, "\n"))
+			return true
+		})
+		if edits {
+			p("\nText edits (⟦%s→%s⟧):\n\n", d.wantName(), d.gotName())
+			eachCell(d.Cells, func(_ int, c *CellDiff) bool {
+				if ws, gs, ok := textPair(c); ok {
+					if e, ok := textEdit(ws, gs, editStyle{}); ok {
+						p("- %s, %s: %s\n", d.rowName(c.Row), mdCode(c.Column), mdCode(e))
+					}
+				}
+				return true
+			})
 		}
 	}
 	mdRows := func(title string, l RowList, cols []string) {
 		if l.Count == 0 {
 			return
 		}
-		p("\n#### %s (%d%s)\n\n| row | %s |\n|--:|%s\n", title, l.Count, mdShown(len(l.Rows), l.Count), mdJoin(cols), strings.Repeat("---|", len(cols)))
-		for _, r := range l.Rows {
+		p("\n#### %s (%d%s)\n\n| row | %s |\n|--:|%s\n", title, l.Count, mdShown(l.Rows.Len(), l.Count), mdJoin(cols), strings.Repeat("---|", len(cols)))
+		for _, r := range l.Rows.All() {
 			idx := r.Want
 			if idx < 0 {
 				idx = r.Got
@@ -118,7 +144,7 @@ func (d *Diff) Markdown() string {
 			p("| %s | %s | %d | %s | %s |\n", mdCode(c.Name), mdEscape(c.Rule), c.Differing, abs, rel)
 		}
 	}
-	return b.String()
+	return b.Flush()
 }
 
 func capitalise(s string) string {

@@ -54,6 +54,7 @@ type config struct {
 	loose       bool
 	nanIsNull   bool
 	limit       int
+	holdUpTo    int        // longest listing built at once (holdListing; tests change it)
 	named       []namedCol // every column an option names, for the unknown-column check
 	problems    []string   // bad option values, found while applying
 }
@@ -70,6 +71,7 @@ func newConfig(opts []Option) *config {
 		norms:    map[string]TextNorm{},
 		ignore:   map[string]bool{},
 		limit:    DefaultListLimit,
+		holdUpTo: holdListing,
 	}
 	for _, o := range opts {
 		if o.apply != nil {

@@ -1,7 +1,9 @@
 package assert
 
 import (
+	"bufio"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"strconv"
@@ -43,49 +45,60 @@ func (d *Diff) Text() string { return d.TextWith(TextStyle{}) }
 
 // TextWith is Text in the given style.
 func (d *Diff) TextWith(st TextStyle) string {
+	var b strings.Builder
+	_ = d.WriteText(&b, st) // a strings.Builder does not fail
+	return b.String()
+}
+
+// WriteText writes what TextWith returns to w as it goes, so that a
+// listing of millions of cells (ListLimit(-1)) needs little memory. A
+// listing longer than textBlock rows is laid out in blocks of that many
+// rows: the columns of a block are as wide as those of the blocks before,
+// or wider when its cells need it. It returns the first error of w.
+func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 	if d == nil {
 		d = &Diff{}
 	}
 	if st.Width <= 0 {
 		st.Width = 100
 	}
-	w := &textWriter{st: st}
+	tw := &textWriter{st: st, out: bufio.NewWriterSize(w, 64<<10)}
 	for i, l := range wrap(d.headline(), st.Width, 4) {
 		if i == 0 {
-			l = w.bold(l)
+			l = tw.bold(l)
 		}
-		w.line(l)
+		tw.line(l)
 	}
 	for _, l := range wrap(d.matchLine(), st.Width, 4) {
-		w.line(l)
+		tw.line(l)
 	}
 	if len(d.Problems) > 0 {
-		w.section("problems")
+		tw.section("problems")
 		for _, p := range d.Problems {
 			for i, l := range wrap(p, st.Width-4, 0) {
 				mark := "    "
 				if i == 0 {
-					mark = "  " + w.paint(ansiProblem, "!") + " "
+					mark = "  " + tw.paint(ansiProblem, "!") + " "
 				}
-				w.line(mark + l)
+				tw.line(mark + l)
 			}
 		}
 	}
 	if len(d.Schema) > 0 {
-		w.section(fmt.Sprintf("schema changes (%d)", len(d.Schema)))
+		tw.section(fmt.Sprintf("schema changes (%d)", len(d.Schema)))
 		rows := [][]string{{"column", "change", d.wantName(), d.gotName()}}
 		for _, s := range d.Schema {
 			rows = append(rows, []string{s.Column, d.describeChange(s.Change), s.Want, s.Got})
 		}
-		w.table(rows, nil, map[int]string{2: ansiWant, 3: ansiGot})
+		tw.table(rows, nil, map[int]string{2: ansiWant, 3: ansiGot})
 	}
 	if d.CellsDiffering > 0 {
-		w.cells(d)
+		tw.cells(d)
 	}
-	w.rowList(d, "missing rows", "in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns, ansiWant)
-	w.rowList(d, "extra rows", "in "+d.gotName()+", not in "+d.wantName(), d.Extra, d.GotColumns, ansiGot)
+	tw.rowList("missing rows", "in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns, ansiWant)
+	tw.rowList("extra rows", "in "+d.gotName()+", not in "+d.wantName(), d.Extra, d.GotColumns, ansiGot)
 	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
-		w.section(fmt.Sprintf("repeated keys (%s %d, %s %d)%s", d.wantName(), d.Duplicates.WantKeys, d.gotName(), d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
+		tw.section(fmt.Sprintf("repeated keys (%s %d, %s %d)%s", d.wantName(), d.Duplicates.WantKeys, d.gotName(), d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
 		rows := [][]string{{"side", "key", "rows", "at rows"}}
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
@@ -98,10 +111,10 @@ func (d *Diff) TextWith(st TextStyle) string {
 			}
 			rows = append(rows, []string{d.sideName(k.Side), "(" + strings.Join(k.Key, ", ") + ")", strconv.Itoa(k.Count), strings.Join(at, ", ") + more})
 		}
-		w.table(rows, map[int]bool{2: true}, nil)
+		tw.table(rows, map[int]bool{2: true}, nil)
 	}
 	if cols := d.notableColumns(); len(cols) > 0 {
-		w.section("columns")
+		tw.section("columns")
 		rows := [][]string{{"column", "compared", "differing", "max Δabs", "at", "max Δrel", "at"}}
 		for _, c := range cols {
 			row := []string{c.Name, c.Rule, strconv.Itoa(c.Differing), "", "", "", ""}
@@ -115,9 +128,9 @@ func (d *Diff) TextWith(st TextStyle) string {
 			}
 			rows = append(rows, row)
 		}
-		w.table(rows, map[int]bool{2: true, 3: true, 5: true}, nil)
+		tw.table(rows, map[int]bool{2: true, 3: true, 5: true}, nil)
 	}
-	return strings.TrimRight(w.b.String(), "\n") + "\n"
+	return tw.out.Flush()
 }
 
 // headline is the first line: equal, or how many of what differ.
@@ -244,7 +257,7 @@ func formatSig(v float64) string {
 
 // cells writes the listing of differing cells.
 func (w *textWriter) cells(d *Diff) {
-	w.section(fmt.Sprintf("differing cells (%d)%s", d.CellsDiffering, shown(len(d.Cells), d.CellsDiffering)))
+	w.section(fmt.Sprintf("differing cells (%d)%s", d.CellsDiffering, shown(d.Cells.Len(), d.CellsDiffering)))
 	head := []string{}
 	keyed := d.Match == MatchByKey && len(d.Keys) > 0
 	if keyed {
@@ -254,14 +267,17 @@ func (w *textWriter) cells(d *Diff) {
 	}
 	nk := len(head)
 	head = append(head, "column", d.wantName(), d.gotName(), "Δabs", "Δrel")
-	rows := [][]string{head}
-	edits := map[int]string{}
 	right := map[int]bool{nk + 3: true, nk + 4: true}
 	if !keyed {
 		right[0] = true
 	}
-	for i, c := range d.Cells {
-		var row []string
+	t := w.newTable(head, right, map[int]string{nk + 1: ansiWant, nk + 2: ansiGot})
+	st := editStyle{}
+	if w.st.Color {
+		st = editStyle{want: ansiWant, got: ansiGot, reset: ansiReset}
+	}
+	eachCell(d.Cells, func(_ int, c *CellDiff) bool {
+		row := make([]string, 0, nk+5)
 		if keyed {
 			row = append(row, c.Row.Key...)
 		} else {
@@ -278,28 +294,40 @@ func (w *textWriter) cells(d *Diff) {
 			}
 		}
 		row = append(row, c.Column, c.Want.Text, c.Got.Text, abs, rel)
-		rows = append(rows, row)
-		if c.Want.Kind.IsText() && c.Got.Kind.IsText() && !c.Want.Null && !c.Got.Null {
-			ws, _ := c.Want.Value.(string)
-			gs, _ := c.Got.Value.(string)
-			st := editStyle{}
-			if w.st.Color {
-				st = editStyle{want: ansiWant, got: ansiGot, reset: ansiReset}
-			}
+		edit := ""
+		if ws, gs, ok := textPair(c); ok {
 			if e, ok := textEdit(ws, gs, st); ok {
-				edits[i+1] = e
+				edit = "edit: " + e
 			}
+		}
+		t.add(row, edit)
+		return true
+	})
+	t.end()
+}
+
+// textPair returns the texts of a pair of non-null text cells.
+func textPair(c *CellDiff) (want, got string, ok bool) {
+	want, okW := rawText(c.Want)
+	got, okG := rawText(c.Got)
+	return want, got, okW && okG
+}
+
+// rawText returns the text of a non-null string or category cell: its
+// Value, or else its literal spelling unquoted.
+func rawText(c Cell) (string, bool) {
+	if !c.Kind.IsText() || c.Null {
+		return "", false
+	}
+	if s, ok := c.Value.(string); ok {
+		return s, true
+	}
+	if strings.HasPrefix(c.Text, `"`) {
+		if s, err := strconv.Unquote(c.Text); err == nil {
+			return s, true
 		}
 	}
-	w.tableWith(rows, right, map[int]string{nk + 1: ansiWant, nk + 2: ansiGot}, func(row int, indent int) {
-		if e, ok := edits[row]; ok {
-			line := strings.Repeat(" ", indent) + "edit: " + e
-			if !w.st.Color {
-				line = textwidth.Truncate(line, w.st.Width)
-			}
-			w.line(line)
-		}
-	})
+	return c.Text, true
 }
 
 func (d *Diff) rowIndex(r RowRef) string {
@@ -310,33 +338,45 @@ func (d *Diff) rowIndex(r RowRef) string {
 }
 
 // rowList writes missing or extra rows as a small table of their cells.
-func (w *textWriter) rowList(d *Diff, title, note string, l RowList, cols []string, colour string) {
+func (w *textWriter) rowList(title, note string, l RowList, cols []string, colour string) {
 	if l.Count == 0 {
 		return
 	}
-	w.section(fmt.Sprintf("%s (%d, %s)%s", title, l.Count, note, shown(len(l.Rows), l.Count)))
-	rows := [][]string{append([]string{"row"}, cols...)}
-	for _, r := range l.Rows {
-		idx := r.Want
-		if idx < 0 {
-			idx = r.Got
-		}
-		rows = append(rows, append([]string{strconv.Itoa(idx)}, r.Cells...))
-	}
+	w.section(fmt.Sprintf("%s (%d, %s)%s", title, l.Count, note, shown(l.Rows.Len(), l.Count)))
 	paint := map[int]string{}
 	for j := range cols {
 		paint[j+1] = colour
 	}
-	w.table(rows, map[int]bool{0: true}, paint)
+	t := w.newTable(append([]string{"row"}, cols...), map[int]bool{0: true}, paint)
+	for _, r := range l.Rows.All() {
+		idx := r.Want
+		if idx < 0 {
+			idx = r.Got
+		}
+		t.add(append([]string{strconv.Itoa(idx)}, r.Cells...), "")
+	}
+	t.end()
 }
 
-// textWriter builds the text report.
+// textWriter writes the text report. Empty lines are held back until a
+// line with text follows, so the report never ends with one.
 type textWriter struct {
-	st TextStyle
-	b  strings.Builder
+	st    TextStyle
+	out   *bufio.Writer
+	blank int
 }
 
-func (w *textWriter) line(s string) { w.b.WriteString(s + "\n") }
+func (w *textWriter) line(s string) {
+	if s == "" {
+		w.blank++
+		return
+	}
+	for ; w.blank > 0; w.blank-- {
+		w.out.WriteByte('\n')
+	}
+	w.out.WriteString(s)
+	w.out.WriteByte('\n')
+}
 
 func (w *textWriter) section(title string) {
 	w.line("")
@@ -352,95 +392,168 @@ func (w *textWriter) paint(code, s string) string {
 	return code + s + ansiReset
 }
 
+// table writes rows (the first is the header) as one aligned table.
 func (w *textWriter) table(rows [][]string, right map[int]bool, paint map[int]string) {
-	w.tableWith(rows, right, paint, nil)
-}
-
-// tableWith writes rows (the first is the header) as aligned columns two
-// spaces apart, indented by two, cutting the widest columns until the lines
-// fit the width. after, when set, is called after each body row with its
-// index and the indent of the third column.
-func (w *textWriter) tableWith(rows [][]string, right map[int]bool, paint map[int]string, after func(row, indent int)) {
 	if len(rows) == 0 {
 		return
 	}
-	ncol := 0
-	for _, r := range rows {
-		ncol = max(ncol, len(r))
+	t := w.newTable(rows[0], right, paint)
+	for _, r := range rows[1:] {
+		t.add(r, "")
 	}
-	widths := make([]int, ncol)
+	t.end()
+}
+
+// textBlock is how many rows of a table are laid out together.
+const textBlock = 4096
+
+// textTable writes rows as aligned columns two spaces apart, indented by
+// two, cutting the widest columns until the lines fit the width. Rows are
+// laid out in blocks of textBlock: the first block (with the header)
+// decides which columns are shown; later blocks keep the columns at least
+// as wide as before.
+type textTable struct {
+	w      *textWriter
+	head   []string
+	right  map[int]bool
+	paint  map[int]string
+	rows   [][]string
+	after  []string
+	ncol   int
+	widths []int // nil until the first block is written
+	keep   int   // columns shown when too many to fit (then a last column says how many are left out); 0: all
+	more   string
+}
+
+func (w *textWriter) newTable(head []string, right map[int]bool, paint map[int]string) *textTable {
+	return &textTable{w: w, head: head, right: right, paint: paint}
+}
+
+// add adds a body row; after, when not empty, is a line written below it,
+// indented to the second column.
+func (t *textTable) add(row []string, after string) {
+	t.rows = append(t.rows, row)
+	t.after = append(t.after, after)
+	if len(t.rows) == textBlock {
+		t.flush()
+	}
+}
+
+// end writes the rows not yet written (and the header of an empty table).
+func (t *textTable) end() {
+	if len(t.rows) > 0 || t.widths == nil {
+		t.flush()
+	}
+}
+
+func (t *textTable) flush() {
+	w := t.w
+	first := t.widths == nil
+	if first {
+		t.ncol = len(t.head)
+		for _, r := range t.rows {
+			t.ncol = max(t.ncol, len(r))
+		}
+		t.widths = naturalWidths(t.ncol, t.head, t.rows)
+		natural := append([]int(nil), t.widths...)
+		if !fitWidths(t.widths, w.st.Width-2) {
+			// Too many columns even when narrowed: keep those that fit at
+			// their own width (at most 24) and end each row with a column
+			// saying how many are left out.
+			for j := range t.widths {
+				t.widths[j] = min(natural[j], 24)
+			}
+			keep, used := 0, 0
+			for keep < t.ncol && used+t.widths[keep]+2+len("…+999") <= w.st.Width-2 {
+				used += t.widths[keep] + 2
+				keep++
+			}
+			t.keep = max(keep, 1)
+			t.more = fmt.Sprintf("…+%d", t.ncol-t.keep)
+			t.widths = append(t.widths[:t.keep], textwidth.Width(t.more))
+		}
+	} else if t.keep == 0 {
+		natural := naturalWidths(t.ncol, nil, t.rows)
+		for j := range t.widths {
+			t.widths[j] = max(t.widths[j], natural[j])
+		}
+		fitWidths(t.widths, w.st.Width-2)
+	}
+	if first {
+		t.writeRow(t.cut(t.head, true), true)
+	}
+	for i, r := range t.rows {
+		t.writeRow(t.cut(r, false), false)
+		if after := t.after[i]; after != "" {
+			line := strings.Repeat(" ", 2+t.widths[0]+2) + after
+			if !w.st.Color {
+				line = textwidth.Truncate(line, w.st.Width)
+			}
+			w.line(line)
+		}
+	}
+	t.rows, t.after = t.rows[:0], t.after[:0]
+}
+
+// naturalWidths returns the widest cell of each of n columns.
+func naturalWidths(n int, head []string, rows [][]string) []int {
+	widths := make([]int, n)
+	for j, s := range head {
+		widths[j] = textwidth.Width(s)
+	}
 	for _, r := range rows {
 		for j, s := range r {
 			widths[j] = max(widths[j], textwidth.Width(s))
 		}
 	}
-	natural := append([]int(nil), widths...)
-	if !fitWidths(widths, w.st.Width-2) {
-		// Too many columns even when narrowed: keep those that fit at
-		// their own width (at most 24) and end each row with a column
-		// saying how many are left out.
-		for j := range widths {
-			widths[j] = min(natural[j], 24)
-		}
-		keep, used := 0, 0
-		for keep < ncol && used+widths[keep]+2+len("…+999") <= w.st.Width-2 {
-			used += widths[keep] + 2
-			keep++
-		}
-		keep = max(keep, 1)
-		more := fmt.Sprintf("…+%d", ncol-keep)
-		cut := make([][]string, len(rows))
-		for i, r := range rows {
-			c := append([]string(nil), r[:min(keep, len(r))]...)
-			for len(c) < keep {
-				c = append(c, "")
-			}
-			if i == 0 {
-				c = append(c, more)
-			} else {
-				c = append(c, "…")
-			}
-			cut[i] = c
-		}
-		rows, ncol = cut, keep+1
-		widths = append(widths[:keep], textwidth.Width(more))
+	return widths
+}
+
+// cut returns the cells of a row that are shown.
+func (t *textTable) cut(r []string, head bool) []string {
+	if t.keep == 0 {
+		return r
 	}
-	for i, r := range rows {
-		var b strings.Builder
-		b.WriteString("  ")
-		for j := 0; j < ncol; j++ {
-			s := ""
-			if j < len(r) {
-				s = textwidth.Truncate(r[j], widths[j])
-			}
-			pad := textwidth.PadRight
-			if right[j] {
-				pad = textwidth.PadLeft
-			}
-			if j == ncol-1 && !right[j] {
-				pad = func(s string, _ int) string { return s }
-			}
-			cell := pad(s, widths[j])
-			switch {
-			case i == 0:
-				cell = w.bold(cell)
-			case paint[j] != "":
-				cell = w.paint(paint[j], cell)
-			}
-			b.WriteString(cell)
-			if j < ncol-1 {
-				b.WriteString("  ")
-			}
+	c := append([]string(nil), r[:min(t.keep, len(r))]...)
+	for len(c) < t.keep {
+		c = append(c, "")
+	}
+	if head {
+		return append(c, t.more)
+	}
+	return append(c, "…")
+}
+
+func (t *textTable) writeRow(r []string, head bool) {
+	w := t.w
+	ncol := len(t.widths)
+	var b strings.Builder
+	b.WriteString("  ")
+	for j := 0; j < ncol; j++ {
+		s := ""
+		if j < len(r) {
+			s = textwidth.Truncate(r[j], t.widths[j])
 		}
-		w.line(strings.TrimRight(b.String(), " "))
-		if after != nil && i > 0 {
-			indent := 2
-			for j := 0; j < min(ncol, 1); j++ {
-				indent += widths[j] + 2
-			}
-			after(i, indent)
+		pad := textwidth.PadRight
+		if t.right[j] {
+			pad = textwidth.PadLeft
+		}
+		if j == ncol-1 && !t.right[j] {
+			pad = func(s string, _ int) string { return s }
+		}
+		cell := pad(s, t.widths[j])
+		switch {
+		case head:
+			cell = w.bold(cell)
+		case t.paint[j] != "":
+			cell = w.paint(t.paint[j], cell)
+		}
+		b.WriteString(cell)
+		if j < ncol-1 {
+			b.WriteString("  ")
 		}
 	}
+	w.line(strings.TrimRight(b.String(), " "))
 }
 
 // fitWidths narrows the widest columns until the columns, two spaces

@@ -47,7 +47,7 @@ func TestReviewChange(t *testing.T) {
 	}{
 		{"one cell of a table", change("d/daily.gold.tbl", reviewOld, cellChanged), nil, ReviewChanged, func(t *testing.T, f FileReview) {
 			require.Equal(t, 1, f.Diff.CellsDiffering)
-			require.Equal(t, []string{"Étang", "2026-04-01"}, f.Diff.Cells[0].Row.Key, "rows matched by the file's keys")
+			require.Equal(t, []string{"Étang", "2026-04-01"}, f.Diff.Cells.At(0).Row.Key, "rows matched by the file's keys")
 			require.Equal(t, assert.MatchByKey, f.Diff.Match)
 			require.Equal(t, 3, f.OldRows)
 			require.Equal(t, 3, f.NewRows)
@@ -289,7 +289,7 @@ func ExampleReviewChange() {
 	rv := &Review{Against: "HEAD", Files: []FileReview{f}}
 	fmt.Println(rv.Headline())
 	fmt.Println(f.Status, "|", f.Summary())
-	c := f.Diff.Cells[0]
+	c := f.Diff.Cells.At(0)
 	fmt.Println(c.Row.Key, c.Column, c.Want.Text, "→", c.Got.Text)
 	// Output:
 	// 1 golden file differs: 1 changed
