@@ -1,11 +1,13 @@
 package golden
 
 import (
+	"bufio"
 	"crypto/sha256"
 	"encoding/base64"
 	"encoding/json"
 	"fmt"
 	"html"
+	"io"
 	"math"
 	"slices"
 	"strconv"
@@ -604,6 +606,15 @@ a{color:#14665a}
 // page's Content-Security-Policy runs no script but its own.
 func (r *Review) HTML() string {
 	var b strings.Builder
+	_ = r.WriteHTML(&b) // a strings.Builder does not fail
+	return b.String()
+}
+
+// WriteHTML writes what HTML returns to w as it goes: the differing cells
+// of a table are written as the Diff lists them, so a page that lists
+// millions of cells needs little memory. It returns the first error of w.
+func (r *Review) WriteHTML(out io.Writer) error {
+	b := bufio.NewWriterSize(out, 64<<10)
 	w := func(s string) { b.WriteString(s) }
 	e := html.EscapeString
 	sum := sha256.Sum256([]byte(reviewScript))
@@ -637,14 +648,14 @@ func (r *Review) HTML() string {
 	}
 	w("<main>\n")
 	for i := range r.Files {
-		htmlFile(&b, i+1, &r.Files[i])
+		htmlFile(b, i+1, &r.Files[i])
 	}
 	w("</main>\n<script>" + reviewScript + "</script>\n</body>\n</html>\n")
-	return b.String()
+	return b.Flush()
 }
 
 // htmlFile writes the section of one file.
-func htmlFile(b *strings.Builder, n int, f *FileReview) {
+func htmlFile(b *bufio.Writer, n int, f *FileReview) {
 	w := func(s string) { b.WriteString(s) }
 	e := html.EscapeString
 	w(`<section class="ps-file" id="f-` + strconv.Itoa(n) + `" data-status="` + string(f.Status) + `" data-kind="` + e(string(f.Kind)) + `">` + "\n")
@@ -684,7 +695,7 @@ func htmlFile(b *strings.Builder, n int, f *FileReview) {
 	}
 	switch {
 	case f.Diff != nil && f.Status == ReviewChanged:
-		w(f.Diff.HTML())
+		_ = f.Diff.WriteHTML(b) // b keeps the first error for WriteHTML
 	case len(f.Lines) > 0:
 		w(`<div class="ps-scroll"><table class="ps-lines"><tbody>` + "\n")
 		for _, l := range f.Lines {

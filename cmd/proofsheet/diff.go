@@ -1,6 +1,7 @@
 package main
 
 import (
+	"io"
 	"strconv"
 	"strings"
 
@@ -142,23 +143,25 @@ func runDiff(e *env, c *command, args []string) int {
 	d := assert.Compare(want, got, opts...)
 	bar.finish()
 
-	var report []byte
-	switch *format {
-	case "json":
-		report, err = d.JSON()
-		if err != nil {
-			return trouble(e, c, "%v", err)
+	// The report is written as it is made: with --max-cells -1 it may list
+	// millions of cells, which the Diff builds one at a time.
+	write := func(w io.Writer) error {
+		switch *format {
+		case "json":
+			if err := d.WriteJSON(w); err != nil {
+				return err
+			}
+			_, err := io.WriteString(w, "\n")
+			return err
+		case "markdown":
+			return d.WriteMarkdown(w)
+		case "html":
+			rv := &golden.Review{Title: "Table comparison", Noun: "table", Against: files[0], Files: []golden.FileReview{golden.ReviewDiff(files[1], d)}}
+			return rv.WriteHTML(w)
 		}
-		report = append(report, '\n')
-	case "markdown":
-		report = []byte(d.Markdown())
-	case "html":
-		rv := &golden.Review{Title: "Table comparison", Noun: "table", Against: files[0], Files: []golden.FileReview{golden.ReviewDiff(files[1], d)}}
-		report = []byte(rv.HTML())
-	default:
-		report = []byte(d.TextWith(assert.TextStyle{Color: *out == "" && useColor(e, e.stdout)}))
+		return d.WriteText(w, assert.TextStyle{Color: *out == "" && useColor(e, e.stdout)})
 	}
-	if err := writeResult(e, *out, report); err != nil {
+	if err := writeResultWith(e, *out, write); err != nil {
 		return trouble(e, c, "%v", err)
 	}
 	if d.Equal() {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -156,6 +157,50 @@ func TestDiffOut(t *testing.T) {
 	entries, err := os.ReadDir(dir)
 	require.NoError(t, err)
 	require.Len(t, entries, 3, "no temporary file left behind")
+}
+
+// TestDiffListsEveryCell lists every differing cell of tables larger
+// than a Diff holds at once, in every format, to a file and to stdout.
+func TestDiffListsEveryCell(t *testing.T) {
+	var w, g strings.Builder
+	w.WriteString("id,tmax\n")
+	g.WriteString("id,tmax\n")
+	const n = 3000
+	for i := range n {
+		fmt.Fprintf(&w, "%d,%g\n", i, 10+float64(i)/8)
+		fmt.Fprintf(&g, "%d,%g\n", i, 10.5+float64(i)/8)
+	}
+	dir := writeFiles(t, map[string]string{"want.csv": w.String(), "got.csv": g.String()})
+	want, got := filepath.Join(dir, "want.csv"), filepath.Join(dir, "got.csv")
+	wt, _, err := fixtures.ReadFile(want)
+	require.NoError(t, err)
+	gt, _, err := fixtures.ReadFile(got)
+	require.NoError(t, err)
+	d := assert.Compare(wt, gt, assert.ListLimit(-1))
+	require.Equal(t, n, d.Cells.Len())
+	for _, format := range []string{"text", "markdown", "json", "html"} {
+		out := filepath.Join(dir, "report."+format)
+		r := runBin(t, "", nil, "diff", "--max-cells", "-1", "--format", format, "--out", out, want, got)
+		require.Equal(t, exitDiffers, r.code, r.stderr)
+		data, err := os.ReadFile(out)
+		require.NoError(t, err)
+		page := string(data)
+		switch format {
+		case "text":
+			require.Equal(t, d.Text(), page)
+		case "markdown":
+			require.Equal(t, d.Markdown(), page)
+		case "json":
+			js, err := d.JSON()
+			require.NoError(t, err)
+			require.Equal(t, string(js)+"\n", page)
+		case "html":
+			require.Equal(t, n, strings.Count(page, `class="`+assert.HTMLChangedCell+`"`))
+		}
+		r = runBin(t, "", nil, "diff", "--max-cells", "-1", "--format", format, want, got)
+		require.Equal(t, exitDiffers, r.code, r.stderr)
+		require.Equal(t, page, r.stdout, "stdout gets what the file gets")
+	}
 }
 
 func TestDiffBadInput(t *testing.T) {

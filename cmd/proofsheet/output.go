@@ -35,14 +35,23 @@ func useColor(e *env, w io.Writer) bool {
 // file renamed into place, so a failure leaves any earlier file as it
 // was), or to stdout when out is empty. It returns a message on failure.
 func writeResult(e *env, out string, data []byte) error {
-	if out == "" {
-		_, err := e.stdout.Write(data)
+	return writeResultWith(e, out, func(w io.Writer) error {
+		_, err := w.Write(data)
 		return err
+	})
+}
+
+// writeResultWith is writeResult for a report written as it is made: write
+// writes it to w. On stdout the report appears as it is written; an --out
+// file is renamed into place only when write succeeds.
+func writeResultWith(e *env, out string, write func(w io.Writer) error) error {
+	if out == "" {
+		return write(e.stdout)
 	}
 	if fi, err := os.Stat(out); err == nil && fi.IsDir() {
 		return fmt.Errorf("--out %s is a directory", out)
 	}
-	if err := fixtures.WriteFileAtomic(out, data, 0o644); err != nil {
+	if err := fixtures.WriteFileAtomicWith(out, 0o644, write); err != nil {
 		return fmt.Errorf("--out %s: %w", out, err)
 	}
 	return nil
