@@ -8,6 +8,9 @@ import (
 	"os"
 	"sort"
 	"strings"
+
+	// Every format the CLI reads and writes: Parquet registers itself.
+	_ "github.com/proofsheet/proofsheet/fixtures/parquet"
 )
 
 // Exit statuses, as POSIX diff uses them.
