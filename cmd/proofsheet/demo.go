@@ -5,9 +5,9 @@ import (
 	"strings"
 
 	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/cmd/proofsheet/internal/greenhouse"
 	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/golden"
-	"github.com/proofsheet/proofsheet/internal/greenhouse"
 	"github.com/proofsheet/proofsheet/property"
 )
 
@@ -64,8 +64,9 @@ func runDemo(e *env, c *command, args []string) int {
 	}
 
 	say("%s\n", heading(style, "proofsheet demo: four community greenhouses, five spring days"))
-	say("Every name, number and file here is invented. The chain under test is\n" +
-		"internal/greenhouse: raw datalogger uploads in, a daily report per house out.\n")
+	say("Every name, number and file here is invented. The chain under test is the\n" +
+		"demo package cmd/proofsheet/internal/greenhouse: raw datalogger uploads in, a\n" +
+		"daily report per house out.\n")
 
 	// 1. Profile what the loggers uploaded.
 	step(1, "What the loggers uploaded")

@@ -12,9 +12,9 @@ import (
 	"testing"
 
 	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/cmd/proofsheet/internal/greenhouse"
 	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/golden"
-	"github.com/proofsheet/proofsheet/internal/greenhouse"
 	"github.com/stretchr/testify/require"
 )
 

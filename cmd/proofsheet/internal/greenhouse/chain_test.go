@@ -180,11 +180,11 @@ func TestEmbeddedUploadsMatchTestdata(t *testing.T) {
 	// The demo embeds a copy of testdata/greenhouse/raw; gen_raw.go writes
 	// both, and this keeps them from drifting apart.
 	for _, u := range Uploads() {
-		disk, err := os.ReadFile(filepath.Join("..", "..", "testdata", "greenhouse", "raw", u.Name))
+		disk, err := os.ReadFile(filepath.Join("..", "..", "..", "..", "testdata", "greenhouse", "raw", u.Name))
 		require.NoError(t, err)
-		require.True(t, bytes.Equal(disk, u.Data), "%s differs from testdata/greenhouse/raw/%s; run go generate ./internal/greenhouse", u.Name, u.Name)
+		require.True(t, bytes.Equal(disk, u.Data), "%s differs from testdata/greenhouse/raw/%s; run go generate ./cmd/proofsheet/internal/greenhouse", u.Name, u.Name)
 	}
-	entries, err := os.ReadDir(filepath.Join("..", "..", "testdata", "greenhouse", "raw"))
+	entries, err := os.ReadDir(filepath.Join("..", "..", "..", "..", "testdata", "greenhouse", "raw"))
 	require.NoError(t, err)
 	require.Len(t, Uploads(), len(entries))
 }

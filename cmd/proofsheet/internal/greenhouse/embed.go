@@ -22,7 +22,7 @@ var dailyGolden []byte
 // relative to the repository root.
 const (
 	GoldenName = "daily"
-	GoldenPath = "internal/greenhouse/testdata/daily.gold.tbl"
+	GoldenPath = "cmd/proofsheet/internal/greenhouse/testdata/daily.gold.tbl"
 )
 
 // DailyGolden returns the bytes of the daily report's golden file.

@@ -2,7 +2,7 @@
 
 // gen_raw writes the invented datalogger uploads of the greenhouse demo:
 // three houses, five spring days of hourly readings, each file messy in its
-// own way. Run it with `go generate ./internal/greenhouse`; the output is
+// own way. Run it with `go generate ./cmd/proofsheet/internal/greenhouse`; the output is
 // deterministic, so running it again changes nothing.
 package main
 
@@ -44,7 +44,7 @@ func series(seed uint64, low, high float64) []reading {
 }
 
 func main() {
-	dir := filepath.Join("..", "..", "testdata", "greenhouse", "raw")
+	dir := filepath.Join("..", "..", "..", "..", "testdata", "greenhouse", "raw")
 	must(os.MkdirAll(dir, 0o755))
 
 	// Bellecôte: Windows-1252 (the ô), CRLF, ISO timestamps with a space,
