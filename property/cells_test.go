@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/big"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -14,6 +15,9 @@ import (
 
 	"github.com/stretchr/testify/require"
 	"golang.org/x/text/encoding/charmap"
+	"golang.org/x/text/language"
+	"golang.org/x/text/message"
+	xnumber "golang.org/x/text/number"
 	"golang.org/x/text/runes"
 	"golang.org/x/text/transform"
 	"golang.org/x/text/unicode/norm"
@@ -29,10 +33,50 @@ func trimEdge(s string) string {
 	return strings.TrimFunc(s, func(r rune) bool { return r == ' ' || r == '\t' || r == '\u00a0' })
 }
 
-var currencySyms = regexp.MustCompile(`US D|USD|CHF|kr|[$£€¥]`)
+var currencySyms = regexp.MustCompile(`CHF|kr|[$£€¥￥]`)
 
-// decodeNumber returns the exact rational a messy number spells.
-func decodeNumber(raw string, m Mess) (*big.Rat, error) {
+// cldrMarks returns the decimal mark, digit group separators and minus sign
+// of a locale as golang.org/x/text formats -1234567.5 there, independently
+// of the package's own profiles. Source: Unicode CLDR as carried by
+// golang.org/x/text/number. CLDR 34 moved the French group separator to
+// U+202F, which x/text's CLDR 32 still writes as U+00A0, so both count as
+// the French separator.
+func cldrMarks(tag string) (decimal string, groups []string, minus string) {
+	s := message.NewPrinter(language.MustParse(tag)).Sprint(xnumber.Decimal(-1234567.5))
+	rs := []rune(s)
+	minus = string(rs[0])
+	groups = []string{string(rs[2])}
+	decimal = string(rs[len(rs)-2])
+	if tag == "fr-FR" {
+		groups = append(groups, "\u202f")
+	}
+	return decimal, groups, minus
+}
+
+// decodeNumber returns the exact rational a messy number spells in the
+// column's locale, or, for a cell of mixed sources, in any shipped locale.
+func decodeNumber(raw string, m Mess, tag string) (*big.Rat, error) {
+	tags := []string{tag}
+	if m.Has(MessMixedSources) {
+		tags = nil
+		for _, l := range Locales() {
+			tags = append(tags, l.Tag)
+		}
+	}
+	var firstErr error
+	for _, tg := range tags {
+		r, err := decodeNumberIn(raw, m, tg)
+		if err == nil {
+			return r, nil
+		}
+		if firstErr == nil {
+			firstErr = err
+		}
+	}
+	return nil, firstErr
+}
+
+func decodeNumberIn(raw string, m Mess, tag string) (*big.Rat, error) {
 	s := raw
 	if m.Has(MessEdgeSpace) {
 		s = trimEdge(s)
@@ -42,6 +86,7 @@ func decodeNumber(raw string, m Mess) (*big.Rat, error) {
 		// Halfwidth and Fullwidth Forms block.
 		s = norm.NFKC.String(s)
 	}
+	decimal, groups, minus := cldrMarks(tag)
 	neg := false
 	if m.Has(MessParentheses) {
 		if !strings.HasPrefix(s, "(") || !strings.HasSuffix(s, ")") {
@@ -49,27 +94,21 @@ func decodeNumber(raw string, m Mess) (*big.Rat, error) {
 		}
 		s, neg = s[1:len(s)-1], true
 	}
-	group, mark := ",", "."
 	if m.Has(MessCurrency) {
 		sym := currencySyms.FindString(s)
-		switch {
-		case sym == "":
+		if sym == "" {
 			return nil, fmt.Errorf("no currency symbol in %q", s)
-		case sym == "€" && strings.HasSuffix(s, "€"):
-			group, mark = ".", ","
-		case sym == "kr":
-			group, mark = "\u00a0", ","
-		case sym == "CHF":
-			group = "'"
 		}
-		s = strings.TrimSpace(strings.Replace(s, sym, "", 1))
-		if strings.HasPrefix(s, "-") {
-			s, neg = strings.TrimSpace(s[1:]), !neg
+		s = strings.Replace(s, sym, "", 1)
+		s = strings.Trim(s, " \u00a0")
+	}
+	for _, mn := range []string{minus, "-"} {
+		if strings.HasPrefix(s, mn) && !m.Has(MessTrailingMinus) && !m.Has(MessUnicodeMinus) {
+			s, neg = strings.Trim(s[len(mn):], " \u00a0"), !neg
+			break
 		}
 	}
 	switch {
-	case m.Has(MessThousands):
-		s = strings.ReplaceAll(s, ",", "")
 	case m.Has(MessThousandsDot):
 		s = strings.ReplaceAll(strings.ReplaceAll(s, ".", ""), ",", ".")
 	case m.Has(MessThousandsSpace):
@@ -79,11 +118,20 @@ func decodeNumber(raw string, m Mess) (*big.Rat, error) {
 		s = strings.ReplaceAll(s, ",", ".")
 	case m.Has(MessThousandsQuote):
 		s = strings.NewReplacer("'", "", "\u2019", "").Replace(s)
-	case m.Has(MessDecimalComma):
-		s = strings.ReplaceAll(s, ",", ".")
-	case m.Has(MessCurrency) || m.Has(MessParentheses):
-		s = strings.ReplaceAll(s, group, "")
-		s = strings.ReplaceAll(s, mark, ".")
+	default:
+		if m.Has(MessThousands) || m.Has(MessCurrency) || m.Has(MessParentheses) {
+			for _, gr := range groups {
+				s = strings.ReplaceAll(s, gr, "")
+			}
+		}
+		if m.Has(MessDecimalComma) {
+			if decimal != "," {
+				return nil, fmt.Errorf("decimal comma in %s, whose mark is %q", tag, decimal)
+			}
+			s = strings.Replace(s, ",", ".", 1)
+		} else if strings.Contains(s, ",") && !m.Has(MessFullWidth) {
+			return nil, fmt.Errorf("a comma in %q without decimal-comma", raw)
+		}
 	}
 	if m.Has(MessUnicodeMinus) {
 		if !strings.HasPrefix(s, "\u2212") {
@@ -110,7 +158,7 @@ func decodeNumber(raw string, m Mess) (*big.Rat, error) {
 	}
 	r, ok := new(big.Rat).SetString(s)
 	if !ok {
-		return nil, fmt.Errorf("%q (from %q) is not a number", s, raw)
+		return nil, fmt.Errorf("%q (from %q) is not a number in %s", s, raw, tag)
 	}
 	if pct {
 		r.Quo(r, big.NewRat(100, 1))
@@ -124,11 +172,11 @@ func decodeNumber(raw string, m Mess) (*big.Rat, error) {
 var dateLayouts = map[Mess][]string{
 	MessNone:                             {"2006-01-02"},
 	MessDateSlash:                        {"2006/01/02", "2006.01.02"},
-	MessDayFirst:                         {"02/01/2006", "02.01.2006", "02-01-2006", "2/1/2006"},
+	MessDayFirst:                         {"02/01/2006", "02.01.2006", "02-01-2006", "2/1/2006", "2.1.2006"},
 	MessMonthFirst:                       {"01/02/2006", "1/2/2006"},
 	MessDayFirst.and(MessTwoDigitYear):   {"02/01/06", "02.01.06"},
 	MessMonthFirst.and(MessTwoDigitYear): {"01/02/06"},
-	MessMonthName:                        {"2 Jan 2006", "Jan 2, 2006", "02-Jan-2006", "January 2, 2006"},
+	MessMonthName:                        {"2 Jan 2006", "Jan 2, 2006", "2 January 2006", "January 2, 2006"},
 	MessCompactDate:                      {"20060102"},
 	MessMidnight:                         {"2006-01-02 15:04:05", "2006-01-02T15:04:05"},
 }
@@ -138,10 +186,17 @@ var dateLayouts = map[Mess][]string{
 // (69–99 → 19xx) is written independently of TwoDigitYear.
 func decodeTime(raw string, m Mess, loc *time.Location, withClock bool) (time.Time, error) {
 	s := raw
-	base := m
-	if m.Has(MessEdgeSpace) {
-		s = trimEdge(s)
-		base = Mess(strings.TrimSuffix(strings.TrimSuffix(string(m), "+"+string(MessEdgeSpace)), string(MessEdgeSpace)))
+	var parts []Mess
+	for _, p := range m.Parts() {
+		if p == MessEdgeSpace {
+			s = trimEdge(s)
+		} else if p != MessMixedSources {
+			parts = append(parts, p)
+		}
+	}
+	base := MessNone
+	for _, p := range parts {
+		base = base.and(p)
 	}
 	switch base {
 	case MessSerialDate:
@@ -245,22 +300,42 @@ func decodeText(raw, clean string, m Mess) error {
 	return nil
 }
 
-func decodeBool(raw string, m Mess) (bool, error) {
+// Yes and no words by language. Common practice, no published source.
+var boolWordsByLanguage = map[string][2][]string{
+	"en": {{"true", "yes", "y", "1"}, {"false", "no", "n", "0"}},
+	"de": {{"true", "ja", "j", "wahr", "1"}, {"false", "nein", "n", "falsch", "0"}},
+	"fr": {{"true", "oui", "o", "vrai", "1"}, {"false", "non", "n", "faux", "0"}},
+	"sv": {{"true", "ja", "j", "sant", "1"}, {"false", "nej", "n", "falskt", "0"}},
+	"ja": {{"true", "はい", "有", "○", "1"}, {"false", "いいえ", "無", "×", "0"}},
+}
+
+func decodeBool(raw string, m Mess, tag string) (bool, error) {
 	s := raw
 	if m.Has(MessEdgeSpace) {
 		s = trimEdge(s)
 	}
-	switch strings.ToLower(s) {
-	case "true", "yes", "y", "1", "t", "on":
-		return true, nil
-	case "false", "no", "n", "0", "f", "off":
-		return false, nil
+	langs := []string{tag[:2]}
+	if m.Has(MessMixedSources) {
+		langs = []string{"en", "de", "fr", "sv", "ja"}
 	}
-	return false, fmt.Errorf("%q is not a bool word", raw)
+	for _, lang := range langs {
+		w := boolWordsByLanguage[lang]
+		if slices.Contains(w[0], strings.ToLower(s)) {
+			return true, nil
+		}
+		if slices.Contains(w[1], strings.ToLower(s)) {
+			return false, nil
+		}
+	}
+	return false, fmt.Errorf("%q is not a bool word in %s", raw, tag)
 }
 
-// checkCell reports whether a cell's Raw spells its Clean.
-func checkCell(f fixtures.Field, c Messy) error {
+// checkCell reports whether a cell's Raw spells its Clean in the default
+// locale.
+func checkCell(f fixtures.Field, c Messy) error { return checkCellIn(f, c, DefaultLocale) }
+
+// checkCellIn reports whether a cell's Raw spells its Clean in locale tag.
+func checkCellIn(f fixtures.Field, c Messy, tag string) error {
 	if c.Clean == nil {
 		switch {
 		case c.Mess == MessNone && c.Raw == "":
@@ -280,7 +355,7 @@ func checkCell(f fixtures.Field, c Messy) error {
 	switch f.Type.Kind() {
 	case fixtures.KindInt64, fixtures.KindFloat64, fixtures.KindDecimal:
 		if c.Mess.Has(MessExtreme) {
-			v, err := strconv.ParseFloat(c.Raw, 64)
+			v, err := strconv.ParseFloat(strings.Replace(c.Raw, ",", ".", 1), 64)
 			if err != nil {
 				return err
 			}
@@ -289,7 +364,7 @@ func checkCell(f fixtures.Field, c Messy) error {
 			}
 			return nil
 		}
-		r, err := decodeNumber(c.Raw, c.Mess)
+		r, err := decodeNumber(c.Raw, c.Mess, tag)
 		if err != nil {
 			return err
 		}
@@ -320,7 +395,7 @@ func checkCell(f fixtures.Field, c Messy) error {
 			return fmt.Errorf("%q is %s, want %s", c.Raw, got, want)
 		}
 	case fixtures.KindBool:
-		b, err := decodeBool(c.Raw, c.Mess)
+		b, err := decodeBool(c.Raw, c.Mess, tag)
 		if err != nil || b != c.Clean.(bool) {
 			return fmt.Errorf("%q does not spell %v (%v)", c.Raw, c.Clean, err)
 		}
@@ -436,7 +511,7 @@ func TestCellShrinksToPlainSpelling(t *testing.T) {
 func TestNullTokensAndSentinels(t *testing.T) {
 	for _, c := range draw[Messy](t, NullTokens(Options{}), 200, 1) {
 		require.Nil(t, c.Clean)
-		require.Contains(t, heavyNullTokens, c.Raw)
+		require.Contains(t, defaultNullTokens(Heavy, LocaleEnUS), c.Raw)
 	}
 	custom := draw[Messy](t, NullTokens(Options{NullTokens: []string{"<none>", "s/o"}}), 50, 1)
 	for _, c := range custom {

@@ -82,7 +82,7 @@ func cleanTempsRef(in *fixtures.Table) (*fixtures.Table, error) {
 }
 
 // tameMess is the mess cleanTemps handles.
-var tameMess = Options{Mess: Heavy, Spellings: []Mess{MessDecimalComma, MessEdgeSpace, MessNullToken},
+var tameMess = Options{Mess: Heavy, Locale: "de-DE", Spellings: []Mess{MessDecimalComma, MessEdgeSpace, MessNullToken},
 	NullTokens: []string{"NA", "N/A", "null"}, Seed: 11, Runs: 60}
 
 func TestCheckPassesAGoodFunction(t *testing.T) {

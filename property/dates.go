@@ -100,8 +100,18 @@ func ymd(t time.Time) (y, m, d string, mi, di int) {
 	return pad4(t.Year()), pad2(int(t.Month())), pad2(t.Day()), int(t.Month()), t.Day()
 }
 
-func dayFirst(r *rng, t time.Time) string {
+// dayFirst writes a date day first: in the locale's own way (its date
+// separator, padded or not) or, for another source, in one of the common
+// layouts.
+func dayFirst(g *colGen, r *rng, t time.Time) string {
 	y, m, d, mi, di := ymd(t)
+	if g.lc.Order == DayMonthYear {
+		sep := g.lc.DateSep
+		if r.next()&1 == 1 {
+			return d + sep + m + sep + y
+		}
+		return strconv.Itoa(di) + sep + strconv.Itoa(mi) + sep + y
+	}
 	switch r.intn(4) {
 	case 0:
 		return d + "/" + m + "/" + y
@@ -121,35 +131,37 @@ func monthFirst(r *rng, t time.Time) string {
 	return strconv.Itoa(mi) + "/" + strconv.Itoa(di) + "/" + y
 }
 
-func twoDigit(r *rng, t time.Time) (string, Mess, bool) {
+// twoDigit writes a date with a two-digit year in the locale's order.
+func twoDigit(g *colGen, r *rng, t time.Time) (string, Mess, bool) {
 	if t.Year() < 1969 || t.Year() > 2068 {
 		return "", "", false
 	}
 	_, m, d, _, _ := ymd(t)
 	yy := pad2(t.Year() % 100)
-	switch r.intn(3) {
-	case 0:
-		return d + "/" + m + "/" + yy, MessDayFirst.and(MessTwoDigitYear), true
-	case 1:
-		return d + "." + m + "." + yy, MessDayFirst.and(MessTwoDigitYear), true
+	if g.lc.Order == MonthDayYear {
+		return m + "/" + d + "/" + yy, MessMonthFirst.and(MessTwoDigitYear), true
 	}
-	return m + "/" + d + "/" + yy, MessMonthFirst.and(MessTwoDigitYear), true
+	sep := g.lc.DateSep
+	if g.lc.Order != DayMonthYear { // another source's layout
+		sep = pick(r, []string{"/", "."})
+	}
+	return d + sep + m + sep + yy, MessDayFirst.and(MessTwoDigitYear), true
 }
 
-func monthName(r *rng, t time.Time) string {
-	mon := t.Month().String()
-	short := mon[:3]
-	d := strconv.Itoa(t.Day())
-	y := strconv.Itoa(t.Year())
-	switch r.intn(4) {
-	case 0:
-		return d + " " + short + " " + y
-	case 1:
-		return short + " " + d + ", " + y
-	case 2:
-		return pad2(t.Day()) + "-" + short + "-" + y
+// monthName writes a date with the locale's month names: month first
+// (Jan 31, 2024) or day first (31 Jan 2024), abbreviated or in full.
+func monthName(g *colGen, r *rng, t time.Time) string {
+	names := g.lc.MonthNames
+	full := r.next()&1 == 1
+	mon := names[0][t.Month()-1]
+	if full {
+		mon = names[1][t.Month()-1]
 	}
-	return mon + " " + d + ", " + y
+	d, y := strconv.Itoa(t.Day()), strconv.Itoa(t.Year())
+	if g.lc.MonthFirst {
+		return mon + " " + d + ", " + y
+	}
+	return d + " " + mon + " " + y
 }
 
 func serialText(t time.Time, frac bool) (string, bool) {
@@ -167,38 +179,54 @@ func serialText(t time.Time, frac bool) (string, bool) {
 	return strings.TrimSuffix(text, "."), true
 }
 
-var dateSpellers = []speller{
-	{MessDateSlash, func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
+func hasOrder(o DateOrder) func(*Locale) bool {
+	return func(l *Locale) bool { return l.Order == o }
+}
+
+func ordersDiffer(a, b *Locale) bool { return a.Order != b.Order }
+
+func hasShortYear(l *Locale) bool { return l.Order != YearMonthDay }
+
+func namesDiffer(a, b *Locale) bool {
+	return a.MonthNames != b.MonthNames || a.MonthFirst != b.MonthFirst
+}
+
+var dateSpellers = []localeSpeller{
+	{mess: MessDateSlash, fn: func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
 		y, m, d, _, _ := ymd(v.t)
 		if r.next()&1 == 1 {
 			return y + "." + m + "." + d, MessDateSlash, true
 		}
 		return y + "/" + m + "/" + d, MessDateSlash, true
 	}},
-	{MessDayFirst, func(_ *colGen, r *rng, v *value) (string, Mess, bool) { return dayFirst(r, v.t), MessDayFirst, true }},
-	{MessMonthFirst, func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
+	{mess: MessDayFirst, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) { return dayFirst(g, r, v.t), MessDayFirst, true },
+		in: hasOrder(DayMonthYear), differs: ordersDiffer},
+	{mess: MessMonthFirst, fn: func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
 		return monthFirst(r, v.t), MessMonthFirst, true
-	}},
-	{MessTwoDigitYear, func(_ *colGen, r *rng, v *value) (string, Mess, bool) { return twoDigit(r, v.t) }},
-	{MessMonthName, func(_ *colGen, r *rng, v *value) (string, Mess, bool) { return monthName(r, v.t), MessMonthName, true }},
-	{MessCompactDate, func(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
+	}, in: hasOrder(MonthDayYear), differs: ordersDiffer},
+	{mess: MessTwoDigitYear, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) { return twoDigit(g, r, v.t) },
+		in: hasShortYear, differs: ordersDiffer},
+	{mess: MessMonthName, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+		return monthName(g, r, v.t), MessMonthName, true
+	}, in: (*Locale).HasMonthNames, differs: namesDiffer},
+	{mess: MessCompactDate, fn: func(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
 		y, m, d, _, _ := ymd(v.t)
 		return y + m + d, MessCompactDate, true
 	}},
-	{MessSerialDate, func(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
+	{mess: MessSerialDate, fn: func(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
 		s, ok := serialText(v.t, false)
 		return s, MessSerialDate, ok
 	}},
-	{MessEpochSeconds, func(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
+	{mess: MessEpochSeconds, fn: func(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
 		return strconv.FormatInt(v.t.Unix(), 10), MessEpochSeconds, true
 	}},
-	{MessMidnight, func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
+	{mess: MessMidnight, fn: func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
 		if r.next()&1 == 1 {
 			return v.plain + " 00:00:00", MessMidnight, true
 		}
 		return v.plain + "T00:00:00", MessMidnight, true
 	}},
-	{MessEdgeSpace, spellEdgeSpace},
+	{mess: MessEdgeSpace, fn: spellEdgeSpace},
 }
 
 // clock writes the time of day as HH:MM:SS with the fraction the value
@@ -208,12 +236,12 @@ func clock(t time.Time) string { return t.Format("15:04:05.999999999") }
 
 func wholeSeconds(t time.Time) bool { return t.Nanosecond() == 0 }
 
-var timestampSpellers = []speller{
-	{MessSpaceSeparator, func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
+var timestampSpellers = []localeSpeller{
+	{mess: MessSpaceSeparator, fn: func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
 		t := v.t
 		return t.Format("2006-01-02") + " " + clock(t), MessSpaceSeparator, true
 	}},
-	{MessUTCOffset, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+	{mess: MessUTCOffset, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		if g.field.Type.Zone() == "" {
 			return "", "", false // a zone-less time has no instant to shift
 		}
@@ -221,48 +249,48 @@ var timestampSpellers = []speller{
 		t := v.t.In(time.FixedZone("", off))
 		return t.Format("2006-01-02T15:04:05.999999999-07:00"), MessUTCOffset, true
 	}},
-	{MessDayFirst, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+	{mess: MessDayFirst, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		t := v.t
-		return dayFirst(r, t) + " " + clock(t), MessDayFirst, true
-	}},
-	{MessMonthFirst, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+		return dayFirst(g, r, t) + " " + clock(t), MessDayFirst, true
+	}, in: hasOrder(DayMonthYear), differs: ordersDiffer},
+	{mess: MessMonthFirst, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		t := v.t
 		return monthFirst(r, t) + " " + clock(t), MessMonthFirst, true
-	}},
-	{MessTwelveHour, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+	}, in: hasOrder(MonthDayYear), differs: ordersDiffer},
+	{mess: MessTwelveHour, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		t := v.t
 		if !wholeSeconds(t) {
 			return "", "", false
 		}
 		return monthFirst(r, t) + " " + t.Format("3:04:05 PM"), MessMonthFirst.and(MessTwelveHour), true
-	}},
-	{MessTwoDigitYear, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+	}, in: func(l *Locale) bool { return l.TwelveHour }, differs: func(a, b *Locale) bool { return !a.TwelveHour }},
+	{mess: MessTwoDigitYear, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		t := v.t
-		s, m, ok := twoDigit(r, t)
+		s, m, ok := twoDigit(g, r, t)
 		return s + " " + clock(t), m, ok
-	}},
-	{MessMonthName, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+	}, in: hasShortYear, differs: ordersDiffer},
+	{mess: MessMonthName, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		t := v.t
-		return monthName(r, t) + " " + clock(t), MessMonthName, true
-	}},
-	{MessCompactDate, func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
+		return monthName(g, r, t) + " " + clock(t), MessMonthName, true
+	}, in: (*Locale).HasMonthNames, differs: namesDiffer},
+	{mess: MessCompactDate, fn: func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
 		t := v.t
 		return t.Format("20060102T150405"), MessCompactDate, wholeSeconds(t)
 	}},
-	{MessEpochSeconds, func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
+	{mess: MessEpochSeconds, fn: func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
 		return strconv.FormatInt(v.t.Unix(), 10), MessEpochSeconds, wholeSeconds(v.t)
 	}},
-	{MessEpochMillis, func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
+	{mess: MessEpochMillis, fn: func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
 		return strconv.FormatInt(v.t.UnixMilli(), 10), MessEpochMillis, v.t.Nanosecond()%1e6 == 0
 	}},
-	{MessSerialDate, func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
-		if g.loc != nil || v.t.Nanosecond()%1e6 != 0 {
+	{mess: MessSerialDate, fn: func(g *colGen, _ *rng, v *value) (string, Mess, bool) {
+		if g.tz != nil || v.t.Nanosecond()%1e6 != 0 {
 			return "", "", false // a serial is a wall clock; only zone-less and UTC columns
 		}
 		s, ok := serialText(v.t, true)
 		return s, MessSerialDate, ok
 	}},
-	{MessEdgeSpace, spellEdgeSpace},
+	{mess: MessEdgeSpace, fn: spellEdgeSpace},
 }
 
 // Fixed UTC offsets in seconds, for the same instant written elsewhere.

@@ -1,6 +1,7 @@
 package property
 
 import (
+	"errors"
 	"fmt"
 	"reflect"
 	"sync"
@@ -34,14 +35,17 @@ func Cells(f fixtures.Field, opts Options) gopter.Gen {
 	if err != nil {
 		return failGen(messyType, err)
 	}
-	return cellGen(newColGen(f, c), MessNone)
+	return cellGen(newColGen(f, c, c.cols[0]), MessNone)
 }
 
 // Spelled returns a generator of cells of the field's type that all carry
 // the given mess, such as MessMojibake or MessSerialDate; nulls only for
-// MessNullToken and MessSentinel. When a drawn value cannot take the mess
-// (a mojibake of plain ASCII) another is drawn, up to 50 times; a draw
-// that still fails is discarded, which gopter counts against the check.
+// MessNullToken and MessSentinel. A spelling the options' locale (default
+// en-US) does not use, such as day-first dates in en-US, comes as another
+// source writes it, marked MessMixedSources. When a drawn value cannot
+// take the mess (a mojibake of plain ASCII) another is drawn, up to 50
+// times; a draw that still fails is discarded, which gopter counts against
+// the check.
 func Spelled(f fixtures.Field, m Mess, opts Options) gopter.Gen {
 	opts.Spellings = []Mess{m}
 	opts.MessRate, opts.NullRate = 1, -1
@@ -54,11 +58,28 @@ func Spelled(f fixtures.Field, m Mess, opts Options) gopter.Gen {
 		opts.ExtremeRate = 1
 	}
 	c, err := opts.compile(fixtures.Schema{f})
+	var np *errNotProducible
+	if errors.As(err, &np) {
+		// Not a spelling of this locale: let other sources in.
+		opts.Spellings = []Mess{m, MessMixedSources}
+		c, err = opts.compile(fixtures.Schema{f})
+	}
 	if err != nil {
 		return failGen(messyType, err)
 	}
+	g := newColGen(f, c, c.cols[0])
 	c.force = m
-	return cellGen(newColGen(f, c), m)
+	return cellGen(g, m)
+}
+
+// valueMess reports whether a mess is made by the value drawn rather than
+// by a speller.
+func valueMess(m Mess) bool {
+	switch m {
+	case MessNullToken, MessSentinel, MessExtreme, MessLong, MessLineEndings:
+		return true
+	}
+	return false
 }
 
 func cellGen(g *colGen, want Mess) gopter.Gen {

@@ -84,6 +84,56 @@ const (
 	MessLong        Mess = "long"               // the value itself is very long (string)
 )
 
+// Sources.
+const (
+	// MessMixedSources marks a cell spelled the way another locale
+	// writes it (1.234,5 or € in an en-US file; 01/31/2024 in a de-DE
+	// one): rows gathered from sources in several countries. No level
+	// has it; ask for it with Options.MixedSources or Also.
+	MessMixedSources Mess = "mixed-sources"
+)
+
+// Messes of whole uploads rather than of cells. No level has them; ask for
+// them with Options.Also (or list them in Spellings). Each keeps the clean
+// truth: Sample.Clean holds exactly the records the uploads carry.
+const (
+	// MessReupload splits the rows into Options.Uploads files (default
+	// 3) over overlapping time windows, so the rows of each overlap are
+	// uploaded twice; those repeated rows carry the mess.
+	MessReupload Mess = "re-upload"
+	// MessCutShort ends a file in the middle of its last line; the cut
+	// row is not a record (its record is lost unless another row holds
+	// it).
+	MessCutShort Mess = "cut-short"
+	// MessRepeatedHeader repeats the header line in the middle of a
+	// file, as concatenated exports do.
+	MessRepeatedHeader Mess = "repeated-header"
+	// MessTotalRow ends a file with a summary row: "Total" in the first
+	// text column, the sums of the file's numbers, other cells empty.
+	MessTotalRow Mess = "total-row"
+	// MessBlankLines puts blank lines in a file: empty lines (which
+	// CSV readers skip, so Raw lacks them) and lines of empty fields
+	// (,,,: a row of nulls in Raw).
+	MessBlankLines Mess = "blank-lines"
+	// MessAddedColumn adds a column that is not in the schema halfway
+	// through a series of uploads: the later files have it, the earlier
+	// ones do not (in the joined Raw table it is null for their rows).
+	MessAddedColumn Mess = "added-column"
+)
+
+// UploadMesses lists the messes of whole uploads.
+func UploadMesses() []Mess {
+	return []Mess{MessReupload, MessCutShort, MessRepeatedHeader, MessTotalRow, MessBlankLines, MessAddedColumn}
+}
+
+func isUploadMess(m Mess) bool {
+	switch m {
+	case MessReupload, MessCutShort, MessRepeatedHeader, MessTotalRow, MessBlankLines, MessAddedColumn:
+		return true
+	}
+	return false
+}
+
 // Has reports whether m includes the single mess one.
 func (m Mess) Has(one Mess) bool {
 	s := string(m)
@@ -132,24 +182,68 @@ func AllMesses() []Mess {
 		MessTwelveHour,
 		MessEdgeSpace, MessCase, MessInnerSpace, MessAccent, MessDecomposed, MessMojibake, MessWindows1252,
 		MessInvalidUTF8, MessStrayBOM, MessNBSP, MessZeroWidth, MessLineEndings, MessLong,
+		MessMixedSources,
+		MessReupload, MessCutShort, MessRepeatedHeader, MessTotalRow, MessBlankLines, MessAddedColumn,
 	}
 }
 
-// lightMesses are the messes of the light level: the ones any export tool
-// of one locale produces.
+// cellMesses lists the messes of cells within one locale: every mess but
+// mixed sources and the upload messes.
+func cellMesses() []Mess {
+	var out []Mess
+	for _, m := range AllMesses() {
+		if m != MessMixedSources && !isUploadMess(m) {
+			out = append(out, m)
+		}
+	}
+	return out
+}
+
+// lightMesses are the messes of the light level: the habits of one
+// locale's export tools. Each occurs only where the column's locale has
+// it (day-first in en-GB and de-DE, month-first and twelve-hour in en-US,
+// a decimal comma where the locale's decimal mark is a comma).
 var lightMesses = []Mess{
-	MessThousands, MessCurrency, MessPlusSign, MessTrailingZeros, MessEdgeSpace,
-	MessNullToken, MessBoolWord, MessCase, MessInnerSpace, MessDateSlash, MessSpaceSeparator,
+	MessThousands, MessDecimalComma, MessCurrency, MessPlusSign, MessTrailingZeros, MessEdgeSpace,
+	MessNullToken, MessBoolWord, MessCase, MessInnerSpace,
+	MessDateSlash, MessDayFirst, MessMonthFirst, MessSpaceSeparator, MessTwelveHour,
+}
+
+// LevelMesses returns the messes a level uses when Options.Spellings is
+// empty: none for None, the light list for Light, every cell mess for
+// Heavy. No level has MessMixedSources or the upload messes.
+func LevelMesses(level MessLevel) []Mess {
+	switch level {
+	case None:
+		return nil
+	case Heavy:
+		return cellMesses()
+	}
+	return slices.Clone(lightMesses)
 }
 
 // MessLevel sets how much mess generated tables carry.
 type MessLevel string
 
-// The mess levels. The zero MessLevel means Light.
+// The mess levels. The zero MessLevel means Light. Every level keeps to
+// the columns' locale (Options.Locale, default en-US): a number, a date or
+// a null word is spelled only as that locale's exports spell it, unless
+// MixedSources is on.
 const (
-	None  MessLevel = "none"  // plain spellings, no duplicates, no extra columns; nulls still occur
-	Light MessLevel = "light" // one locale's export habits: thousands commas, $, edge spaces, a few null words
-	Heavy MessLevel = "heavy" // every mess this package knows, more often, with duplicates and extra columns
+	// None: plain spellings (the literal table spelling of each value);
+	// nulls are the empty field; no duplicates, no extra columns.
+	None MessLevel = "none"
+	// Light: one locale's export habits (see LevelMesses): digits grouped
+	// and fractions written the locale's way, its currency sign where it
+	// puts it, its short numeric dates, a plus sign, trailing zeros, edge
+	// blanks, its null words, its yes/no words, case and doubled spaces in
+	// categories, year-first dates with slashes, timestamps with a space.
+	// 5 % nulls, 15 % of the other cells messy, 2 % duplicate rows.
+	Light MessLevel = "light"
+	// Heavy: every cell mess of the locale, with 10 % nulls, 50 % messy
+	// cells, 3 % sentinels, 2 % extreme numbers, 8 % duplicate rows (half
+	// of them spelled anew) and up to one extra column.
+	Heavy MessLevel = "heavy"
 )
 
 // ParseMessLevel reads none, light or heavy.
@@ -229,6 +323,31 @@ type Options struct {
 	// MaxWords is the most words of a generated string (default 3).
 	// LongText is the length in bytes of very long strings (default 4096).
 	MaxWords, LongText int
+
+	// Locale is the tag of the columns' locale profile (default en-US;
+	// see Locales): how numbers, money, percents, dates, null and yes/no
+	// are spelled. A column's Rules may name another.
+	Locale string
+	// MixedSources lets cells be spelled the way other locales would
+	// (MessMixedSources), as rows gathered from several countries are.
+	MixedSources bool
+	// Also adds messes to the level's (or to Spellings): the upload
+	// messes and MessMixedSources, which no level has, or any other.
+	Also []Mess
+	// Columns steers single columns by name: their values (ranges,
+	// uniqueness, allowed values, lengths, derived columns) and their
+	// spellings (messes, locale, null rate and tokens).
+	Columns map[string]Rules
+
+	// Uploads is the number of files a re-upload series splits the rows
+	// into (MessReupload; default 3). Overlap is the share of each
+	// file's time window that the next file covers again (default 0.25).
+	Uploads int
+	Overlap float64
+	// UploadRate is the chance that each file of a sample gets each of
+	// the upload messes asked for: cut-short, repeated-header,
+	// total-row, blank-lines (default 0.5).
+	UploadRate float64
 }
 
 // config is Options with the defaults filled in and the mess lists
@@ -248,6 +367,12 @@ type config struct {
 	maxDigits, decimals, maxWords, longText int
 	fits                                    func(string) bool // the target encoding can carry the text
 	force                                   Mess              // a value mess every value takes (Spelled)
+	locale                                  *Locale
+	cols                                    []*colConf // per schema column
+	order                                   []int      // schema columns in the order values are made (derived last)
+	uploads                                 int        // files in a re-upload series (1: none)
+	avoid                                   []Mess     // Options.Avoid
+	overlap, uploadRate                     float64
 }
 
 func rate(v, def float64) float64 {
@@ -295,12 +420,12 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 		c.sentinelRate, c.extremeRate, c.dupRate = rate(o.SentinelRate, -1), rate(o.ExtremeRate, -1), rate(o.DuplicateRate, -1)
 		c.extra = count(o.ExtraColumns, -1)
 	case Light:
-		levelMesses = lightMesses
+		levelMesses = LevelMesses(Light)
 		c.nullRate, c.messRate = rate(o.NullRate, 0.05), rate(o.MessRate, 0.15)
 		c.sentinelRate, c.extremeRate, c.dupRate = rate(o.SentinelRate, -1), rate(o.ExtremeRate, -1), rate(o.DuplicateRate, 0.02)
 		c.extra = count(o.ExtraColumns, -1)
 	case Heavy:
-		levelMesses = AllMesses()
+		levelMesses = LevelMesses(Heavy)
 		c.nullRate, c.messRate = rate(o.NullRate, 0.1), rate(o.MessRate, 0.5)
 		c.sentinelRate, c.extremeRate, c.dupRate = rate(o.SentinelRate, 0.03), rate(o.ExtremeRate, 0.02), rate(o.DuplicateRate, 0.08)
 		c.extra = count(o.ExtraColumns, 1)
@@ -309,8 +434,9 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 		return nil, fmt.Errorf("property: unknown mess level %q (want none, light or heavy)", level)
 	}
 	c.missing = count(o.MissingColumns, -1)
+	c.avoid = o.Avoid
 	known := AllMesses()
-	for _, list := range [][]Mess{o.Spellings, o.Avoid} {
+	for _, list := range [][]Mess{o.Spellings, o.Avoid, o.Also} {
 		for _, m := range list {
 			if !slices.Contains(known, m) {
 				return nil, fmt.Errorf("property: unknown mess %q", m)
@@ -324,6 +450,10 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 		if c.messRate == 0 && o.MessRate >= 0 {
 			c.messRate = rate(o.MessRate, 0.5)
 		}
+	}
+	levelMesses = append(slices.Clip(levelMesses), o.Also...)
+	if o.MixedSources {
+		levelMesses = append(levelMesses, MessMixedSources)
 	}
 	for _, m := range levelMesses {
 		if !slices.Contains(o.Avoid, m) {
@@ -357,13 +487,15 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 		c.runs = 100
 	}
 	c.nullTokens = o.NullTokens
-	if c.nullTokens == nil {
-		if level == Heavy {
-			c.nullTokens = heavyNullTokens
-		} else {
-			c.nullTokens = lightNullTokens
-		}
+	loc := o.Locale
+	if loc == "" {
+		loc = DefaultLocale
 	}
+	lc, err := LocaleByTag(loc)
+	if err != nil {
+		return nil, fmt.Errorf("property: %w", err)
+	}
+	c.locale = lc
 	c.sentinels = o.Sentinels
 	from, to := o.DateFrom, o.DateTo
 	if from.IsZero() {
@@ -378,12 +510,6 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 	if from.Year() < 1 || to.Year() > 9999 {
 		return nil, fmt.Errorf("property: dates must lie in years 1 to 9999")
 	}
-	for _, f := range schema {
-		if f.Type.Kind() == fixtures.KindTimestamp && f.Type.Unit() == fixtures.Nanos &&
-			(from.Year() < 1678 || to.Year() > 2261) {
-			return nil, fmt.Errorf("property: column %q counts nanoseconds in an int64, which holds years 1678 to 2261 only; set DateFrom and DateTo inside them", f.Name)
-		}
-	}
 	c.dateFrom, c.dateTo = from.Unix(), to.Unix()
 	c.maxDigits = min(count(o.MaxDigits, 7), 15)
 	if c.maxDigits == 0 {
@@ -392,6 +518,35 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 	c.decimals = min(count(o.Decimals, 3), 6)
 	c.maxWords = max(count(o.MaxWords, 3), 1)
 	c.longText = max(count(o.LongText, 4096), 1)
+	if err := c.compileUploads(o); err != nil {
+		return nil, err
+	}
+	for name := range o.Columns {
+		if schema.Index(name) < 0 {
+			return nil, fmt.Errorf("property: rules for unknown column %q", name)
+		}
+	}
+	c.cols = make([]*colConf, len(schema))
+	for j, f := range schema {
+		cc, err := compileColumn(f, schema, o.Columns[f.Name], c)
+		if err != nil {
+			return nil, err
+		}
+		c.cols[j] = cc
+		if cc.unique != AnyValues {
+			if n := cc.capacity(f, c, c.maxRows); n < c.maxRows {
+				return nil, fmt.Errorf("property: column %q: only %d distinct values fit its rules, fewer than MaxRows %d", f.Name, n, c.maxRows)
+			}
+		}
+	}
+	if err := c.checkProducible(schema, o); err != nil {
+		return nil, err
+	}
+	order, err := deriveOrder(schema, c.cols)
+	if err != nil {
+		return nil, err
+	}
+	c.order = order
 	for name, lv := range o.Levels {
 		i := schema.Index(name)
 		if i < 0 {
@@ -407,12 +562,91 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 	return c, nil
 }
 
-// Null spellings. Common practice of spreadsheet, database and statistics
-// exports; no published source.
-var (
-	lightNullTokens = []string{"NA", "N/A", "null"}
-	heavyNullTokens = []string{" ", "NA", "na", "N/A", "n/a", "#N/A", "NULL", "null", "Null", "None", "none", "nil", "nan", "-", "--", "—", "?", "."}
-)
+// Null spellings of any locale's software: spreadsheet errors, database
+// and programming words, punctuation. Common practice, no published
+// source. Heavy mess adds them to the locale's null words.
+var anyLocaleNullTokens = []string{" ", "#N/A", "None", "nil", "nan", "NaN", "--", "—", "?", "."}
+
+// defaultNullTokens returns the null spellings of a level in a locale: its
+// null words, and at Heavy those of any locale's software too.
+func defaultNullTokens(level MessLevel, lc *Locale) []string {
+	out := slices.Clone(lc.NullWords)
+	if level == Heavy {
+		for _, t := range anyLocaleNullTokens {
+			if !slices.Contains(out, t) {
+				out = append(out, t)
+			}
+		}
+	}
+	return out
+}
+
+// deriveOrder returns the schema columns in the order a record's values
+// are made: plain columns first, then derived ones after the columns they
+// read. A cycle is an error.
+func deriveOrder(schema fixtures.Schema, cols []*colConf) ([]int, error) {
+	order := make([]int, 0, len(schema))
+	state := make([]uint8, len(schema)) // 0 new, 1 visiting, 2 done
+	var visit func(j int, path []string) error
+	visit = func(j int, path []string) error {
+		switch state[j] {
+		case 2:
+			return nil
+		case 1:
+			return fmt.Errorf("property: derived columns depend on each other in a circle: %s", strings.Join(append(path, schema[j].Name), " → "))
+		}
+		state[j] = 1
+		if e := cols[j].derive; e != nil {
+			for _, name := range e.columns() {
+				if err := visit(schema.Index(name), append(path, schema[j].Name)); err != nil {
+					return err
+				}
+			}
+		}
+		state[j] = 2
+		order = append(order, j)
+		return nil
+	}
+	for j := range schema {
+		if cols[j].derive == nil {
+			if err := visit(j, nil); err != nil {
+				return nil, err
+			}
+		}
+	}
+	for j := range schema {
+		if err := visit(j, nil); err != nil {
+			return nil, err
+		}
+	}
+	return order, nil
+}
+
+// compileUploads checks the options of upload messes.
+func (c *config) compileUploads(o Options) error {
+	c.uploads = 1
+	if c.allowed[MessReupload] || c.allowed[MessAddedColumn] {
+		c.uploads = 3
+	}
+	if o.Uploads != 0 {
+		if o.Uploads < 1 || o.Uploads > 1000 {
+			return fmt.Errorf("property: Uploads %d: want 1 to 1000", o.Uploads)
+		}
+		c.uploads = o.Uploads
+	}
+	if c.allowed[MessAddedColumn] && c.uploads < 2 {
+		return fmt.Errorf("property: added-column needs a series of 2 uploads or more; Uploads is %d", c.uploads)
+	}
+	c.overlap = 0
+	if c.allowed[MessReupload] {
+		c.overlap = rate(o.Overlap, 0.25)
+	}
+	if c.overlap >= 1 {
+		return fmt.Errorf("property: Overlap %v: want a share below 1", o.Overlap)
+	}
+	c.uploadRate = rate(o.UploadRate, 0.5)
+	return nil
+}
 
 // Default sentinels by column kind. Common practice of datalogger and
 // spreadsheet exports; no published source.
@@ -421,3 +655,81 @@ var (
 	dateSentinels   = []string{"1900-01-01", "9999-12-31"}
 	textSentinels   = []string{"ERR", "ERROR", "#VALUE!"}
 )
+
+// errNotProducible is returned for a mess asked for by name that no column
+// can take in its locale.
+type errNotProducible struct{ msg string }
+
+func (e *errNotProducible) Error() string { return e.msg }
+
+// checkProducible refuses messes asked for by name (Spellings, a column's
+// Messes) that no column, or not the column, can take: a spelling its
+// locale does not use, or one for another kind of value.
+func (c *config) checkProducible(schema fixtures.Schema, o Options) error {
+	gens := make([]*colGen, len(schema))
+	for j, f := range schema {
+		gens[j] = newColGen(f, c, c.cols[j])
+	}
+	for j, f := range schema {
+		for _, m := range c.cols[j].rules.Messes {
+			if !gens[j].canMake(m) {
+				return &errNotProducible{fmt.Sprintf("property: column %q: %s", f.Name, cannotMake(m, f, gens[j]))}
+			}
+		}
+	}
+	for _, m := range o.Spellings {
+		if isUploadMess(m) {
+			continue
+		}
+		ok := false
+		for _, g := range gens {
+			if g.canMake(m) {
+				ok = true
+				break
+			}
+		}
+		if !ok && len(schema) > 0 {
+			if len(schema) == 1 {
+				return &errNotProducible{fmt.Sprintf("property: column %q: %s", schema[0].Name, cannotMake(m, schema[0], gens[0]))}
+			}
+			return &errNotProducible{fmt.Sprintf("property: no column can take mess %s in its locale and kind; name another locale, or turn on mixed sources", m)}
+		}
+	}
+	return nil
+}
+
+func cannotMake(m Mess, f fixtures.Field, g *colGen) string {
+	return fmt.Sprintf("a %s column in %s never takes mess %s (ask for mixed sources to spell as other locales do)", f.Type, g.cc.lc.Tag, m)
+}
+
+// canMake reports whether the column can produce a cell with mess m.
+func (g *colGen) canMake(m Mess) bool {
+	switch m {
+	case MessNullToken:
+		return len(g.nullTokens) > 0
+	case MessSentinel:
+		return len(g.sentinels) > 0 || g.cc.sentinelRate > 0
+	case MessExtreme:
+		return g.kind == fixtures.KindFloat64 || g.kind == fixtures.KindInt64
+	case MessLong, MessLineEndings:
+		return g.kind == fixtures.KindString
+	case MessDecimalComma:
+		if g.cc.commaPlain && (g.kind == fixtures.KindFloat64 || g.kind == fixtures.KindDecimal) {
+			return true
+		}
+	case MessMixedSources:
+		return g.cc.mixed && len(g.spellers) > 0
+	case MessDayFirst, MessMonthFirst:
+		for _, sp := range g.spellers {
+			if sp.mess == MessTwoDigitYear && g.cc.allowed[MessTwoDigitYear] {
+				return true
+			}
+		}
+	}
+	for _, sp := range g.spellers {
+		if sp.mess == m {
+			return true
+		}
+	}
+	return false
+}

@@ -41,8 +41,9 @@ func (r *rng) between(lo, hi int64) int64 {
 // float returns a uniform float64 in [0, 1).
 func (r *rng) float() float64 { return float64(r.next()>>11) / (1 << 53) }
 
-// chance reports true with probability p.
-func (r *rng) chance(p float64) bool { return p > 0 && r.float() < p }
+// chance reports true with probability p. It is true for the high draws,
+// so that a source of zero bits (a fuzz input that ran out) says no.
+func (r *rng) chance(p float64) bool { return p > 0 && r.float() >= 1-p }
 
 // split returns a new generator seeded from this one, for a sub-task whose
 // draws must not shift when another sub-task changes.

@@ -78,7 +78,7 @@ func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
 	gens := make([]*colGen, len(schema))
 	crs := make([]*rng, len(schema))
 	for j, f := range schema {
-		gens[j] = newColGen(f, c)
+		gens[j] = newColGen(f, c, c.cols[j])
 		crs[j] = root.split()
 	}
 	s := &Sample{Seed: seed, Schema: append(fixtures.Schema(nil), schema...)}
@@ -114,7 +114,7 @@ func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
 			}
 			pos := sr.intn(len(s.cols) + 1)
 			s.cols = slices.Insert(s.cols, pos, rawCol{name: name, plain: name, field: -1 - k})
-			extraGens = append(extraGens, newColGen(fixtures.Col(name, fixtures.String), c))
+			extraGens = append(extraGens, newColGen(fixtures.Col(name, fixtures.String), c, nil))
 			extraRs = append(extraRs, root.split())
 			k++
 		}
@@ -160,12 +160,16 @@ func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
 			s.rows = append(s.rows, rawRow{rec: src.rec, cells: row})
 			continue
 		}
-		for j := range schema {
-			recCells[j] = gens[j].next(crs[j])
-		}
 		start := len(cleanAll)
-		for j := range schema {
-			cleanAll = append(cleanAll, recCells[j].Clean)
+		cleanAll = cleanAll[:start+len(schema)]
+		rec := cleanAll[start:]
+		for _, j := range c.order {
+			if c.cols[j].derive != nil {
+				recCells[j] = gens[j].derived(crs[j], rec)
+			} else {
+				recCells[j] = gens[j].next(crs[j])
+			}
+			rec[j] = recCells[j].Clean
 		}
 		s.recs = append(s.recs, cleanAll[start:len(cleanAll):len(cleanAll)])
 		for j, rc := range s.cols {

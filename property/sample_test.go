@@ -145,10 +145,10 @@ func TestColumnsMissingExtraAndHeaders(t *testing.T) {
 }
 
 func TestMessLevelsAndKnobs(t *testing.T) {
-	heavy, err := Generate(greenhouse, 3000, 8, Options{Mess: Heavy})
+	heavy, err := Generate(greenhouse, 3000, 8, Options{Mess: Heavy, MixedSources: true})
 	require.NoError(t, err)
 	counts := heavy.MessCounts()
-	for _, m := range AllMesses() {
+	for _, m := range append(cellMesses(), MessMixedSources) {
 		if m == MessUTCOffset || m == MessLong {
 			continue // zoned non-UTC columns only; rare
 		}
@@ -159,7 +159,7 @@ func TestMessLevelsAndKnobs(t *testing.T) {
 	for m := range light.MessCounts() {
 		require.Contains(t, lightMesses, m)
 	}
-	only, err := Generate(greenhouse, 1000, 8, Options{Mess: Heavy, Spellings: []Mess{MessDayFirst}})
+	only, err := Generate(greenhouse, 1000, 8, Options{Mess: Heavy, Locale: "en-GB", Spellings: []Mess{MessDayFirst}})
 	require.NoError(t, err)
 	require.Equal(t, []Mess{MessDayFirst}, keys(only.MessCounts()))
 	avoid, err := Generate(greenhouse, 2000, 8, Options{Mess: Heavy, Avoid: []Mess{MessInvalidUTF8, MessNullToken}})

@@ -213,13 +213,13 @@ func spellDecomposed(_ *colGen, _ *rng, v *value) (string, Mess, bool) {
 	return s, MessDecomposed, s != v.text
 }
 
-var stringSpellers = []speller{
-	{MessEdgeSpace, func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
+var stringSpellers = []localeSpeller{
+	{mess: MessEdgeSpace, fn: func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
 		return edgeSpace(r, v.text), MessEdgeSpace, true
 	}},
-	{MessNBSP, spellNBSP}, {MessZeroWidth, spellZeroWidth}, {MessStrayBOM, spellStrayBOM},
-	{MessMojibake, spellMojibake}, {MessWindows1252, spellWindows1252},
-	{MessInvalidUTF8, spellInvalidUTF8}, {MessDecomposed, spellDecomposed},
+	{mess: MessNBSP, fn: spellNBSP}, {mess: MessZeroWidth, fn: spellZeroWidth}, {mess: MessStrayBOM, fn: spellStrayBOM},
+	{mess: MessMojibake, fn: spellMojibake}, {mess: MessWindows1252, fn: spellWindows1252},
+	{mess: MessInvalidUTF8, fn: spellInvalidUTF8}, {mess: MessDecomposed, fn: spellDecomposed},
 }
 
 // levelOf finds the precomputed level of a category value.
@@ -232,8 +232,8 @@ func (g *colGen) levelOf(s string) *level {
 	return nil
 }
 
-func levelSpeller(m Mess, f func(r *rng, l *level) (string, bool)) speller {
-	return speller{m, func(g *colGen, r *rng, v *value) (string, Mess, bool) {
+func levelSpeller(m Mess, f func(r *rng, l *level) (string, bool)) localeSpeller {
+	return localeSpeller{mess: m, fn: func(g *colGen, r *rng, v *value) (string, Mess, bool) {
 		l := g.levelOf(v.text)
 		if l == nil {
 			return "", "", false
@@ -243,11 +243,11 @@ func levelSpeller(m Mess, f func(r *rng, l *level) (string, bool)) speller {
 	}}
 }
 
-var categorySpellers = []speller{
+var categorySpellers = []localeSpeller{
 	levelSpeller(MessCase, func(r *rng, l *level) (string, bool) {
 		return pick(r, []string{l.upper, l.lower, l.swap}), l.hasLetter
 	}),
-	{MessEdgeSpace, func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
+	{mess: MessEdgeSpace, fn: func(_ *colGen, r *rng, v *value) (string, Mess, bool) {
 		return edgeSpace(r, v.text), MessEdgeSpace, true
 	}},
 	levelSpeller(MessInnerSpace, func(r *rng, l *level) (string, bool) { return replaceSpace(r, l.name, "  ") }),
@@ -255,8 +255,8 @@ var categorySpellers = []speller{
 	levelSpeller(MessDecomposed, func(_ *rng, l *level) (string, bool) { return l.nfd, true }),
 	levelSpeller(MessMojibake, func(_ *rng, l *level) (string, bool) { return l.mojibake, true }),
 	levelSpeller(MessWindows1252, func(_ *rng, l *level) (string, bool) { return l.win1252, true }),
-	{MessInvalidUTF8, spellInvalidUTF8}, {MessStrayBOM, spellStrayBOM},
-	{MessNBSP, spellNBSP}, {MessZeroWidth, spellZeroWidth},
+	{mess: MessInvalidUTF8, fn: spellInvalidUTF8}, {mess: MessStrayBOM, fn: spellStrayBOM},
+	{mess: MessNBSP, fn: spellNBSP}, {mess: MessZeroWidth, fn: spellZeroWidth},
 }
 
 // word makes one word of one to three syllables.
@@ -288,10 +288,12 @@ func words(b []byte, r *rng, max int) []byte {
 var lineBreaks = []string{"\r\n", "\r", "\n"}
 
 func (g *colGen) stringValue(r *rng, v *value) {
-	c := g.cfg
+	c, cc := g.cfg, g.cc
 	var buf [64]byte
+	ruled := cc.maxLen > 0 || cc.minLen > 0 || len(cc.alphabet) > 0 || g.used != nil
 	switch {
-	case c.force == MessLong || c.allowed[MessLong] && r.chance(c.messRate*0.02):
+	case ruled:
+	case c.force == MessLong || cc.allowed[MessLong] && r.chance(cc.messRate*0.02):
 		// Words up to 256 bytes, then that run repeated: long is the point,
 		// not variety.
 		b := make([]byte, 0, c.longText+300)
@@ -320,7 +322,7 @@ func (g *colGen) stringValue(r *rng, v *value) {
 		s := string(b)
 		v.clean, v.plain, v.text, v.raw, v.mess, v.fixed = s, s, s, s, MessLong, true
 		return
-	case c.force == MessLineEndings || c.allowed[MessLineEndings] && r.chance(c.messRate*0.08):
+	case c.force == MessLineEndings || cc.allowed[MessLineEndings] && r.chance(cc.messRate*0.08):
 		lines := 2 + r.intn(3)
 		var clean, raw strings.Builder
 		lf := true
@@ -343,12 +345,80 @@ func (g *colGen) stringValue(r *rng, v *value) {
 		return
 	}
 	for try := 0; ; try++ {
-		s := string(words(buf[:0], r, c.maxWords))
-		if try < 8 && (g.isToken(s)) {
+		var s string
+		switch {
+		case len(cc.alphabet) > 0:
+			n := cc.minLen + r.intn(cc.maxLen-cc.minLen+1)
+			rs := make([]rune, n)
+			for i := range rs {
+				rs[i] = cc.alphabet[r.intn(len(cc.alphabet))]
+			}
+			s = string(rs)
+		case ruled:
+			s = g.wordsWithin(r)
+		default:
+			s = string(words(buf[:0], r, c.maxWords))
+		}
+		if try < 64 && (g.isToken(s) || g.used != nil && g.isUsed(s)) {
 			continue
 		}
+		if g.used != nil && g.isUsed(s) {
+			s = g.freeString(try)
+		}
+		g.taken(s)
 		v.clean, v.plain, v.text = s, s, s
 		return
+	}
+}
+
+// wordsWithin makes words whose length in characters lies within the
+// column's bounds.
+func (g *colGen) wordsWithin(r *rng) string {
+	lo, hi := max(g.cc.minLen, 1), g.cc.maxLen
+	var b []byte
+	for utf8.RuneCount(b) < lo || len(b) == 0 {
+		if len(b) > 0 {
+			b = append(b, ' ')
+		}
+		b = words(b, r, g.cfg.maxWords)
+	}
+	s := string(b)
+	if hi > 0 && utf8.RuneCountInString(s) > hi {
+		rs := []rune(s)[:hi]
+		if rs[hi-1] == ' ' {
+			rs[hi-1] = 'a'
+		}
+		s = string(rs)
+	}
+	return s
+}
+
+// freeString makes a string not yet taken in a unique column, counting
+// through the alphabet (or the letters) from n.
+func (g *colGen) freeString(n int) string {
+	alpha := g.cc.alphabet
+	if len(alpha) == 0 {
+		alpha = []rune(alphabets["lower"])
+	}
+	lo := max(g.cc.minLen, 1)
+	for k := n; ; k++ {
+		var rs []rune
+		for x := k; ; x /= len(alpha) {
+			rs = append(rs, alpha[x%len(alpha)])
+			if x < len(alpha) {
+				break
+			}
+		}
+		for len(rs) < lo {
+			rs = append(rs, alpha[0])
+		}
+		s := string(rs)
+		if g.cc.maxLen > 0 && len(rs) > g.cc.maxLen {
+			return s // the capacity check keeps this from happening
+		}
+		if !g.isUsed(s) && !g.isToken(s) {
+			return s
+		}
 	}
 }
 
