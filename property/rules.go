@@ -133,10 +133,10 @@ type colConf struct {
 	lo, hi         *big.Rat
 	unitLo, unitHi [16]int64 // the bounds in units of 10^-d, for d up to maxDec
 	maxInt         int       // most integer digits when unbounded
-	maxDec  int
-	exact   bool
-	neg     bool // values may be negative
-	bounded bool // Min, Max, NonNegative or Integer given: draw in [lo, hi]
+	maxDec         int
+	exact          bool
+	neg            bool // values may be negative
+	bounded        bool // Min, Max, NonNegative or Integer given: draw in [lo, hi]
 
 	unique Uniqueness
 	start  int64 // first value of a sequence
