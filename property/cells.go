@@ -272,8 +272,7 @@ func (g *colGen) couldBeValue(tok string) bool {
 // allowedMess reports whether a speller's spelling m (with primary mess
 // primary) keeps to the column's messes: every part is allowed or comes
 // with the primary one. A two-digit year comes with its date order, a
-// twelve-hour clock with month-first dates, parentheses with the currency
-// sign, and in a locale whose decimal mark is a comma any number mess with
+// twelve-hour clock with month-first dates, and in a locale whose decimal mark is a comma any number mess with
 // decimal-comma, unless the column avoids it.
 func (g *colGen) allowedMess(primary, m Mess) bool {
 	for _, p := range m.Parts() {
@@ -283,7 +282,6 @@ func (g *colGen) allowedMess(primary, m Mess) bool {
 		switch {
 		case primary == MessTwoDigitYear && (p == MessDayFirst || p == MessMonthFirst),
 			primary == MessTwelveHour && p == MessMonthFirst,
-			primary == MessParentheses && p == MessCurrency,
 			p == MessDecimalComma && g.kind.IsNumeric() && !g.cc.avoidComma:
 			continue
 		}
@@ -569,7 +567,7 @@ func (g *colGen) drawNumber(r *rng, v *value, maxInt, maxFrac int, exact bool) {
 			frac = frac[:len(frac)-1]
 		}
 	}
-	v.neg = r.intn(10) < 3 && !(len(intd) == 1 && intd[0] == '0' && len(frac) == 0)
+	v.neg = r.intn(10) < 3 && !(len(intd) == 1 && intd[0] == '0' && strings.Trim(string(frac), "0") == "")
 	s := string(b[:split+len(frac)])
 	v.intd, v.frac = s[:split], s[split:]
 }

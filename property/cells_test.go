@@ -53,29 +53,6 @@ func cldrMarks(tag string) (decimal string, groups []string, minus string) {
 	return decimal, groups, minus
 }
 
-// decodeNumber returns the exact rational a messy number spells in the
-// column's locale, or, for a cell of mixed sources, in any shipped locale.
-func decodeNumber(raw string, m Mess, tag string) (*big.Rat, error) {
-	tags := []string{tag}
-	if m.Has(MessMixedSources) {
-		tags = nil
-		for _, l := range Locales() {
-			tags = append(tags, l.Tag)
-		}
-	}
-	var firstErr error
-	for _, tg := range tags {
-		r, err := decodeNumberIn(raw, m, tg)
-		if err == nil {
-			return r, nil
-		}
-		if firstErr == nil {
-			firstErr = err
-		}
-	}
-	return nil, firstErr
-}
-
 func decodeNumberIn(raw string, m Mess, tag string) (*big.Rat, error) {
 	s := raw
 	if m.Has(MessEdgeSpace) {
@@ -364,24 +341,26 @@ func checkCellIn(f fixtures.Field, c Messy, tag string) error {
 			}
 			return nil
 		}
-		r, err := decodeNumber(c.Raw, c.Mess, tag)
-		if err != nil {
-			return err
-		}
-		switch w := c.Clean.(type) {
-		case int64:
-			if r.Cmp(new(big.Rat).SetInt64(w)) != 0 {
-				return fmt.Errorf("%q is %s, want %d", c.Raw, r.RatString(), w)
-			}
-		case float64:
-			if g, _ := r.Float64(); g != w {
-				return fmt.Errorf("%q is %v, want %v", c.Raw, g, w)
-			}
-		case fixtures.Decimal:
-			if r.Cmp(w.Rat()) != 0 {
-				return fmt.Errorf("%q is %s, want %s", c.Raw, r.RatString(), w)
+		tags := []string{tag}
+		if c.Mess.Has(MessMixedSources) {
+			// Another source's spelling may read differently in each
+			// locale: one of them must give the value.
+			tags = tags[:0]
+			for _, l := range Locales() {
+				tags = append(tags, l.Tag)
 			}
 		}
+		var firstErr error
+		for _, tg := range tags {
+			err := numberIs(c, tg)
+			if err == nil {
+				return nil
+			}
+			if firstErr == nil {
+				firstErr = err
+			}
+		}
+		return firstErr
 	case fixtures.KindDate, fixtures.KindTimestamp:
 		loc := time.UTC
 		if z := f.Type.Zone(); z != "" {
@@ -401,6 +380,30 @@ func checkCellIn(f fixtures.Field, c Messy, tag string) error {
 		}
 	case fixtures.KindString, fixtures.KindCategory:
 		return decodeText(c.Raw, c.Clean.(string), c.Mess)
+	}
+	return nil
+}
+
+// numberIs reports whether a number cell reads as its clean value in locale
+// tag.
+func numberIs(c Messy, tag string) error {
+	r, err := decodeNumberIn(c.Raw, c.Mess, tag)
+	if err != nil {
+		return err
+	}
+	switch w := c.Clean.(type) {
+	case int64:
+		if r.Cmp(new(big.Rat).SetInt64(w)) != 0 {
+			return fmt.Errorf("%q is %s in %s, want %d", c.Raw, r.RatString(), tag, w)
+		}
+	case float64:
+		if g, _ := r.Float64(); g != w {
+			return fmt.Errorf("%q is %v in %s, want %v", c.Raw, g, tag, w)
+		}
+	case fixtures.Decimal:
+		if r.Cmp(w.Rat()) != 0 {
+			return fmt.Errorf("%q is %s in %s, want %s", c.Raw, r.RatString(), tag, w)
+		}
 	}
 	return nil
 }

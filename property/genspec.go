@@ -15,15 +15,17 @@ import (
 //
 // A schema file is UTF-8 text, one statement per line:
 //
-//	# greenhouse datalogger uploads
-//	@delimiter ;
+//	# bench bookings of the greenhouse network
+//	@locale en-US
+//	@encoding windows-1252
 //	@dates 2026-03-01 2026-06-30
-//	@null-rate 0.08
-//	house   category      levels="Étang|Les Pins|Mühlbach"
-//	at      timestamp(s)
-//	temp_c  float64
-//	kept    int64
-//	note    string
+//	booking_id  int64          unique=sequential min=1001 mess=none
+//	house       category       levels="Bellecôte|Kæreby|Ørnely" weights=5|3|1
+//	minutes     int64          non-negative max=720
+//	price       decimal(10,2)  min=0 max=2500 mess=currency|thousands mess-rate=0.6
+//	booked_on   date           mess=month-first
+//	note        string         length=3..40 null-rate=0.3
+//	total       decimal(12,2)  derive="price * minutes / 60" mess=none
 //
 // A line starting with # is a comment (so is the rest of a line after a
 // blank and #); blank lines are skipped.
@@ -31,12 +33,26 @@ import (
 // A column line is NAME TYPE [OPTION…]: the name, then a type as a literal
 // table header spells it (bool, int64, float64, string, category, date,
 // timestamp(UNIT[, ZONE]), decimal(P, S)). Columns come out in the order
-// of their lines. A category column may give levels=A|B|C, its values;
-// without it, invented house names.
+// of their lines. The options are Rules:
+//
+//	levels=A|B|C                    a category's values (default: invented house names)
+//	values=A|B|C  weights=3|1|1     the only values, drawn by weight (any type;
+//	                                weights also go with levels=)
+//	unique, unique=sequential, unique=gaps   unique values; a numbered sequence
+//	min=X  max=Y                    bounds of numbers, dates and timestamps
+//	non-negative, integer, decimals=N        numbers at 0 or more; whole; at most N decimals
+//	length=N or MIN..MAX, alphabet=NAME|"chars"   strings (names: digits, lower,
+//	                                upper, letters, alnum, hex)
+//	mess=M|M…, mess=none (or plain), avoid=M|M…   the column's messes
+//	mess-rate=R  null-rate=R  sentinel-rate=R     the column's shares (0: none)
+//	null-tokens=A|B  sentinels=A|B  locale=TAG
+//	derive=EXPR                     computed from other columns: "price * qty"
 //
 // A setting line is @NAME [VALUE…]:
 //
 //	@mess none|light|heavy          how much mess (default light)
+//	@locale TAG                     en-US (default), en-GB, de-DE, de-CH, fr-FR, sv-SE, ja-JP
+//	@mixed-sources                  cells may be spelled as other locales do
 //	@encoding utf-8|utf-8-bom|utf-16le|windows-1252
 //	@delimiter , ; | or tab         the field delimiter (default ,)
 //	@quoting minimal|all|text|mixed which fields are quoted
@@ -51,6 +67,8 @@ import (
 //	@sentinels A|B|…                fault codes
 //	@spellings M M…                 only these messes (names: AllMesses)
 //	@avoid M M…                     never these messes
+//	@also M M…                      these messes too (upload messes, mixed-sources)
+//	@uploads N, @overlap R, @upload-rate R   re-upload series and upload messes
 //	@extra-columns N                most columns not in the schema
 //	@missing-columns N              most schema columns left out
 //	@max-digits N, @decimals N, @max-words N
@@ -113,28 +131,54 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 			return nil, fail(toks[1], "%v", terr)
 		}
 		spec.Schema = append(spec.Schema, fixtures.Col(cname, typ))
+		var rules Rules
+		var weights []float64
+		weightsTok := specToken{}
 		for _, opt := range toks[2:] {
-			key, _, ok := strings.Cut(opt.text, "=")
-			if opt.quoted || !ok {
-				return nil, fail(opt, "want an option KEY=VALUE, got %q", opt.text)
+			if opt.quoted {
+				return nil, fail(opt, "want an option KEY=VALUE or a flag, got %q", opt.text)
 			}
-			val := opt.value
-			switch key {
-			case "levels":
-				if typ.Kind() != fixtures.KindCategory {
-					return nil, fail(opt, "levels are for category columns; %q is %s", cname, typ)
+			key, _, hasValue := strings.Cut(opt.text, "=")
+			if !hasValue {
+				switch key {
+				case "unique":
+					rules.Unique = Distinct
+				case "non-negative":
+					rules.NonNegative = true
+				case "integer":
+					rules.Integer = true
+				case "plain":
+					rules.Plain = true
+				default:
+					return nil, fail(opt, "unknown column flag %q (want unique, non-negative, integer or plain; options are KEY=VALUE)", key)
 				}
-				levels := splitBar(val)
-				if len(levels) == 0 {
-					return nil, fail(opt, "no levels given")
-				}
-				if spec.Options.Levels == nil {
-					spec.Options.Levels = map[string][]string{}
-				}
-				spec.Options.Levels[cname] = levels
-			default:
-				return nil, fail(opt, "unknown column option %q (want levels)", key)
+				continue
 			}
+			if err := spec.columnOption(&rules, &weights, typ, cname, key, opt.value); err != nil {
+				return nil, fail(opt, "%v", err)
+			}
+			if key == "weights" {
+				weightsTok = opt
+			}
+		}
+		if weights != nil && len(rules.Values) == 0 && spec.Options.Levels[cname] != nil {
+			for _, l := range spec.Options.Levels[cname] {
+				rules.Values = append(rules.Values, Choice{Value: l})
+			}
+		}
+		if weights != nil {
+			if len(weights) != len(rules.Values) {
+				return nil, fail(weightsTok, "%d weights for %d values", len(weights), len(rules.Values))
+			}
+			for i, w := range weights {
+				rules.Values[i].Weight = w
+			}
+		}
+		if !rules.isZero() {
+			if spec.Options.Columns == nil {
+				spec.Options.Columns = map[string]Rules{}
+			}
+			spec.Options.Columns[cname] = rules
 		}
 	}
 	if len(spec.Schema) == 0 {
@@ -147,6 +191,147 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 		return nil, &fixtures.ParseError{Path: name, Err: err}
 	}
 	return spec, nil
+}
+
+// columnOption applies one KEY=VALUE option of a column line.
+func (s *GenSpec) columnOption(r *Rules, weights *[]float64, typ fixtures.Type, cname, key, val string) error {
+	shareOf := func(dst *float64) error {
+		v, err := strconv.ParseFloat(val, 64)
+		if err != nil || v < 0 || v > 1 {
+			return fmt.Errorf("%s: want a share from 0 to 1, got %q", key, val)
+		}
+		if v == 0 {
+			v = -1 // zero means the file's in Rules; written here it means none
+		}
+		*dst = v
+		return nil
+	}
+	messes := func() ([]Mess, error) {
+		var out []Mess
+		for _, name := range splitBar(val) {
+			m := Mess(name)
+			if indexOf(AllMesses(), m) < 0 {
+				return nil, fmt.Errorf("%s: unknown mess %q", key, name)
+			}
+			out = append(out, m)
+		}
+		if len(out) == 0 {
+			return nil, fmt.Errorf("%s: no mess named", key)
+		}
+		return out, nil
+	}
+	switch key {
+	case "levels":
+		if typ.Kind() != fixtures.KindCategory {
+			return fmt.Errorf("levels are for category columns; %q is %s", cname, typ)
+		}
+		levels := splitBar(val)
+		if len(levels) == 0 {
+			return errors.New("no levels given")
+		}
+		if s.Options.Levels == nil {
+			s.Options.Levels = map[string][]string{}
+		}
+		s.Options.Levels[cname] = levels
+	case "values":
+		vals := strings.Split(val, "|")
+		if val == "" {
+			return errors.New("no values given")
+		}
+		for _, v := range vals {
+			r.Values = append(r.Values, Choice{Value: v})
+		}
+	case "weights":
+		for _, w := range strings.Split(val, "|") {
+			f, err := strconv.ParseFloat(w, 64)
+			if err != nil || f < 0 {
+				return fmt.Errorf("weights: want numbers of 0 or more, got %q", w)
+			}
+			*weights = append(*weights, f)
+		}
+	case "unique":
+		switch val {
+		case "distinct", "yes":
+			r.Unique = Distinct
+		case "sequential":
+			r.Unique = Sequential
+		case "gaps":
+			r.Unique = Gapped
+		default:
+			return fmt.Errorf("unique=%s: want unique, unique=sequential or unique=gaps", val)
+		}
+	case "min":
+		r.Min = val
+	case "max":
+		r.Max = val
+	case "decimals":
+		n, err := strconv.Atoi(val)
+		if err != nil || n < 0 || n > 15 {
+			return fmt.Errorf("decimals: want a whole number from 0 to 15, got %q", val)
+		}
+		if n == 0 {
+			r.Integer = true
+		} else {
+			r.Decimals = n
+		}
+	case "length":
+		lo, hi, isRange := strings.Cut(val, "..")
+		a, err1 := strconv.Atoi(lo)
+		b := a
+		var err2 error
+		if isRange {
+			b, err2 = strconv.Atoi(hi)
+		}
+		if err1 != nil || err2 != nil || a < 0 || b < a || b == 0 {
+			return fmt.Errorf("length: want N or MIN..MAX in characters, got %q", val)
+		}
+		r.MinLen, r.MaxLen = a, b
+	case "alphabet":
+		if val == "" {
+			return errors.New("alphabet: no characters given")
+		}
+		r.Alphabet = val
+	case "mess":
+		if val == "none" {
+			r.Plain = true
+			return nil
+		}
+		ms, err := messes()
+		if err != nil {
+			return err
+		}
+		r.Messes = ms
+	case "avoid":
+		ms, err := messes()
+		if err != nil {
+			return err
+		}
+		r.Avoid = ms
+	case "mess-rate":
+		return shareOf(&r.MessRate)
+	case "null-rate":
+		return shareOf(&r.NullRate)
+	case "sentinel-rate":
+		return shareOf(&r.SentinelRate)
+	case "null-tokens":
+		r.NullTokens = splitBar(val)
+	case "sentinels":
+		r.Sentinels = splitBar(val)
+	case "locale":
+		l, err := LocaleByTag(val)
+		if err != nil {
+			return err
+		}
+		r.Locale = l.Tag
+	case "derive":
+		if _, err := parseExpr(val); err != nil {
+			return fmt.Errorf("derive %q: %v", val, err)
+		}
+		r.Derive = val
+	default:
+		return fmt.Errorf("unknown column option %q (want levels, values, weights, unique, min, max, decimals, length, alphabet, mess, avoid, mess-rate, null-rate, sentinel-rate, null-tokens, sentinels, locale, derive)", key)
+	}
+	return nil
 }
 
 // setting applies one @ line.
@@ -283,6 +468,51 @@ func (s *GenSpec) setting(toks []specToken, fail func(specToken, string, ...any)
 		return countOf(&o.Decimals, 6)
 	case "max-words":
 		return countOf(&o.MaxWords, 1000)
+	case "locale":
+		return value(func(v string) error {
+			l, err := LocaleByTag(v)
+			if err != nil {
+				return err
+			}
+			o.Locale = l.Tag
+			return nil
+		})
+	case "mixed-sources":
+		return flag(&o.MixedSources)
+	case "also":
+		if len(args) == 0 {
+			return fail(toks[0], "@also takes one or more mess names")
+		}
+		for _, a := range args {
+			m := Mess(a.value)
+			if indexOf(AllMesses(), m) < 0 {
+				return fail(a, "@also: unknown mess %q", a.value)
+			}
+			o.Also = append(o.Also, m)
+		}
+	case "uploads":
+		return value(func(v string) error {
+			n, err := strconv.Atoi(v)
+			if err != nil || n < 1 || n > 1000 {
+				return fmt.Errorf("@uploads: want a whole number from 1 to 1000, got %q", v)
+			}
+			o.Uploads = n
+			return nil
+		})
+	case "overlap":
+		return value(func(v string) error {
+			r, err := strconv.ParseFloat(v, 64)
+			if err != nil || r < 0 || r >= 1 {
+				return fmt.Errorf("@overlap: want a share from 0 to below 1, got %q", v)
+			}
+			if r == 0 {
+				r = -1
+			}
+			o.Overlap = r
+			return nil
+		})
+	case "upload-rate":
+		return rateOf(&o.UploadRate)
 	case "shuffle":
 		return flag(&o.Shuffle)
 	case "shuffle-columns":

@@ -158,6 +158,14 @@ type choiceConf struct {
 	cum   float64 // cumulative weight up to and including this one
 }
 
+// isZero reports whether the rules change nothing.
+func (r *Rules) isZero() bool {
+	return len(r.Messes) == 0 && len(r.Avoid) == 0 && !r.Plain && r.MessRate == 0 && r.NullRate == 0 &&
+		r.SentinelRate == 0 && r.NullTokens == nil && r.Sentinels == nil && r.Locale == "" && r.Min == "" &&
+		r.Max == "" && !r.NonNegative && !r.Integer && r.Decimals == 0 && r.Unique == AnyValues &&
+		len(r.Values) == 0 && r.MinLen == 0 && r.MaxLen == 0 && r.Alphabet == "" && r.Derive == ""
+}
+
 // valueRuled reports whether the rules constrain the column's values, so
 // that extreme values would break them.
 func (r *Rules) valueRuled() bool {
