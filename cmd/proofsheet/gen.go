@@ -35,11 +35,21 @@ Options:
   --quiet            print nothing on stderr while generating
 
 Schema file: UTF-8 text, one statement per line; # starts a comment.
-A column is NAME TYPE [levels=A|B|C]: the type as a literal table header
+A column is NAME TYPE [OPTION...]: the type as a literal table header
 spells it — bool, int64, float64, string, category, date,
-timestamp(s|ms|us|ns[, ZONE]), decimal(P,S) — and, for a category, its
-values. A setting is @NAME VALUE:
+timestamp(s|ms|us|ns[, ZONE]), decimal(P,S) — then what that column may
+be:
+  levels=A|B|C  values=A|B|C  weights=3|1|1   allowed values, by weight
+  unique  unique=sequential  unique=gaps       ids
+  min=X  max=Y  non-negative  integer  decimals=N
+  length=N|MIN..MAX  alphabet=digits|lower|upper|letters|alnum|hex|"chars"
+  mess=M|M  mess=none  avoid=M|M               the column's messes
+  mess-rate=R  null-rate=R  sentinel-rate=R  null-tokens=A|B  sentinels=A|B
+  locale=TAG  derive="price * qty"
+A setting is @NAME VALUE:
   @mess none|light|heavy        @encoding utf-8|utf-8-bom|utf-16le|windows-1252
+  @locale en-US|en-GB|de-DE|de-CH|fr-FR|sv-SE|ja-JP (default en-US)
+  @mixed-sources                cells spelled as other locales do too
   @delimiter , ; | or tab       @quoting minimal|all|text|mixed
   @line-ending lf|crlf|mixed    @dates FROM TO (YYYY-MM-DD)
   @null-rate R   @mess-rate R   @duplicate-rate R   @sentinel-rate R
@@ -47,6 +57,10 @@ values. A setting is @NAME VALUE:
   @null-tokens A|B|…            @sentinels A|B|…
   @spellings MESS…              @avoid MESS…  (mess names such as
                                 thousands, currency, day-first, mojibake)
+  @also MESS…                   upload messes (re-upload, cut-short,
+                                repeated-header, total-row, blank-lines,
+                                added-column) and mixed-sources
+  @uploads N   @overlap R   @upload-rate R
   @extra-columns N   @missing-columns N   @max-digits N   @decimals N
   @max-words N       @shuffle   @shuffle-columns   @header-mess
 Names or values with blanks, # or = go in double quotes: "air temp",
@@ -57,8 +71,8 @@ levels="Les Pins|Étang".
   @dates 2026-03-01 2026-06-30
   house   category      levels="Étang|Les Pins|Mühlbach"
   at      timestamp(s)
-  temp_c  float64
-  kept    int64
+  temp_c  float64       min=-30 max=55 decimals=1
+  kept    int64         non-negative
 
 Example:
   proofsheet gen --schema houses.schema --rows 5000 --seed 42 --mess heavy \
