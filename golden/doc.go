@@ -64,9 +64,9 @@
 // check's options (within its tolerances) is left untouched, so float
 // noise makes no churn in the repository.
 //
-// The -update flag exists only in test binaries that import this package:
-// `go test ./... -update` fails in a package that does not ("flag provided
-// but not defined: -update"). The variable PROOFSHEET_UPDATE=1 works for
+// The -update switch is understood only by test binaries that import this
+// package (or define a flag named update): `go test ./... -update` fails
+// in a package that does not ("flag provided but not defined: -update"). The variable PROOFSHEET_UPDATE=1 works for
 // any mix of packages.
 //
 // # Updates in CI
@@ -80,21 +80,21 @@
 //
 // # The -update flag and your own
 //
-// This package registers -update on the standard flag set when it is
-// initialised. Go initialises an imported package before the package that
-// imports it, so if your test package also defines a flag named update:
+// This package defines no flag, so a test package (or any other package in
+// the test binary) may define its own flag named update without a clash:
 //
-//	var update = flag.Bool("update", false, "…") // in your _test.go
+//	var update = flag.Bool("update", false, "…") // in your _test.go: fine
 //
-// the second definition runs after ours and the test binary stops before
-// any test runs with
-//
-//	panic: … flag redefined: update
-//
-// Remove your flag and call golden.Updating() where you read *update: it
-// reports whether this run updates (the flag or PROOFSHEET_UPDATE, with the
-// CI rule applied), so your own files follow the same switch. Or give your
-// flag another name.
+// When the package is initialised and no flag named update exists yet, it
+// takes -update (also --update and -update=true|false) out of os.Args
+// itself, before flag.Parse runs, and remembers it. If your package
+// defines update as well, one -update then sets both: your flag is set to
+// true at the first golden check or Updating call, or in RunTests when it
+// is your TestMain, so read *update inside your tests (not in TestMain
+// before m.Run). If a flag named update was defined before this package
+// was initialised, that flag owns -update and golden follows its value.
+// golden.Updating() reports whether this run updates (-update or
+// PROOFSHEET_UPDATE, with the CI rule applied) for files of your own.
 //
 // # Stale files
 //

@@ -5,7 +5,9 @@ import (
 	"flag"
 	"fmt"
 	"os"
+	"strconv"
 	"strings"
+	"sync"
 )
 
 // The environment variables the package reads. Each is read at the moment
@@ -33,10 +35,83 @@ const (
 	EnvStale = "PROOFSHEET_STALE"
 )
 
-// updateFlag is the -update flag, registered when the package initialises.
-// It is the package's only global mutable state apart from the bookkeeping
-// of one run (see registry).
-var updateFlag = flag.Bool("update", false, "rewrite golden files that differ or are missing (package github.com/proofsheet/proofsheet/golden)")
+// updateFlag is -update as this package took it from the command line
+// (see takeUpdateArg). It is the package's only global mutable state apart
+// from the bookkeeping of one run (see registry).
+var updateFlag = new(bool)
+
+// otherFlag is a flag named update that another package defined before
+// this one was initialised; its value is read at each check.
+var otherFlag *flag.Flag
+
+// The package defines no flag: a flag named update defined anywhere else in
+// the test binary, before or after this package is initialised, must not
+// clash with it (the flag package panics on a second definition). Instead,
+// -update is taken out of the command line here, before flag.Parse sees
+// it.
+func init() {
+	if f := flag.Lookup(updateName); f != nil {
+		otherFlag = f // defined first by another package: it owns -update
+		return
+	}
+	os.Args, *updateFlag = takeUpdateArg(os.Args)
+}
+
+const updateName = "update"
+
+// takeUpdateArg removes -update, --update and -update=BOOL from the
+// arguments before a "--", and reports whether the last of them asked for
+// an update. An -update=VALUE whose value is not a boolean is left for
+// flag.Parse to refuse.
+func takeUpdateArg(args []string) ([]string, bool) {
+	if len(args) == 0 {
+		return args, false
+	}
+	out := []string{args[0]}
+	on := false
+	for i, a := range args[1:] {
+		if a == "--" {
+			out = append(out, args[i+1:]...)
+			break
+		}
+		name, value, hasValue := strings.Cut(strings.TrimPrefix(strings.TrimPrefix(a, "-"), "-"), "=")
+		if !strings.HasPrefix(a, "-") || name != updateName {
+			out = append(out, a)
+			continue
+		}
+		if !hasValue {
+			on = true
+			continue
+		}
+		v, err := strconv.ParseBool(value)
+		if err != nil {
+			out = append(out, a)
+			continue
+		}
+		on = v
+	}
+	return out, on
+}
+
+var syncOther sync.Once
+
+// flagUpdate reports whether -update was given. When a package of the
+// test binary defined its own update flag after this one took -update from
+// the command line, that flag is set to true as well (once), so one
+// -update refreshes both.
+func flagUpdate() bool {
+	if otherFlag != nil {
+		return truthy(otherFlag.Value.String())
+	}
+	if *updateFlag {
+		syncOther.Do(func() {
+			if f := flag.Lookup(updateName); f != nil && !truthy(f.Value.String()) {
+				f.Value.Set("true")
+			}
+		})
+	}
+	return *updateFlag
+}
 
 // truthy reads a yes/no environment value: "", 0, false, no and off (any
 // case, blanks trimmed) are false; anything else is true.
@@ -57,7 +132,7 @@ type mode struct {
 }
 
 func currentMode() mode {
-	m := mode{byFlag: *updateFlag, forced: truthy(os.Getenv(EnvUpdateInCI))}
+	m := mode{byFlag: flagUpdate(), forced: truthy(os.Getenv(EnvUpdateInCI))}
 	m.requested = m.byFlag || truthy(os.Getenv(EnvUpdate))
 	if v := os.Getenv(EnvCI); truthy(v) {
 		m.ci = v
@@ -87,9 +162,8 @@ func (m mode) refusal() error {
 
 // Updating reports whether this run rewrites golden files: -update or
 // PROOFSHEET_UPDATE asked for it and CI does not refuse it. A test package
-// that needs the update switch for files of its own uses Updating instead
-// of defining a second -update flag (which would panic; see the package
-// documentation).
+// that needs the update switch for files of its own can call Updating or
+// keep a flag of its own named update (see the package documentation).
 func Updating() bool { return currentMode().allowed() }
 
 // UpdateRefused returns, when an update was asked for but CI refuses it,

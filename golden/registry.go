@@ -178,6 +178,7 @@ type M interface {
 // look stale too: list before you prune. The result is the exit code for
 // os.Exit.
 func RunTests(m M) int {
+	flagUpdate() // a flag named update of the test package learns of -update before any test
 	code := m.Run()
 	roots := runState.usedRoots()
 	if def, err := (Store{}).absRoot(); err == nil && !slices.Contains(roots, def) {
