@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
 	"sort"
 	"strings"
 
@@ -62,6 +63,9 @@ func run(e *env, args []string) int {
 	}
 	name := args[0]
 	switch name {
+	case "version", "-version", "--version":
+		fmt.Fprint(e.stdout, versionText(debug.ReadBuildInfo()))
+		return exitSame
 	case "help", "-h", "-help", "--help":
 		if len(args) > 1 {
 			if c, ok := cmds[args[1]]; ok {
@@ -93,7 +97,7 @@ func usage(w io.Writer, cmds map[string]*command) {
 	for _, n := range names {
 		fmt.Fprintf(w, "  %-8s %s\n", n, cmds[n].summary)
 	}
-	fmt.Fprint(w, "\nRun 'proofsheet help COMMAND' or 'proofsheet COMMAND --help' for a command's options.\nExit status: 0 no difference, 1 differences, 2 trouble (bad input, usage).\n")
+	fmt.Fprint(w, "\nRun 'proofsheet help COMMAND' or 'proofsheet COMMAND --help' for a command's options.\nExit status: 0 no difference, 1 differences, 2 trouble (bad input, usage).\n'proofsheet --version' prints the version and VCS revision.\n")
 }
 
 // newFlags makes a quiet flag set; parseFlags reports its errors.
