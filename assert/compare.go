@@ -48,10 +48,10 @@ func Compare(want, got *fixtures.Table, opts ...Option) *Diff {
 	c.pairColumns()
 	keysOK := c.checkKeys()
 	c.checkRules()
-	if !keysOK {
-		return d
+	if keysOK {
+		c.run()
 	}
-	c.run()
+	c.addHints(keysOK)
 	return d
 }
 
@@ -70,6 +70,12 @@ type comparison struct {
 	missing, extra []int32
 	tail           bool
 	tailFrom       int
+	results        []*colResult // per compared column, once run
+	diffRows       []uint64     // bitmap of the pair slots with a differing cell
+	rowsRan        bool         // rows were paired and cells compared
+	// missingRows and extraRows are the first hintRowCap missing and
+	// extra rows (keyed and multiset pairings), for the hints.
+	missingRows, extraRows []int32
 }
 
 // checkNames reports options that name columns neither table has.
@@ -314,6 +320,7 @@ func (c *comparison) run() {
 	}
 	results := c.compareColumns()
 	c.collect(results)
+	c.results, c.rowsRan = results, true
 }
 
 // matchByPosition pairs row i with row i; the longer table's tail is
@@ -326,6 +333,9 @@ func (c *comparison) matchByPosition() {
 }
 
 func (c *comparison) addMissing(wi int) {
+	if len(c.missingRows) < hintRowCap {
+		c.missingRows = append(c.missingRows, int32(wi))
+	}
 	c.d.Missing.Count++
 	if !c.d.listFull(len(c.missing)) {
 		c.missing = append(c.missing, int32(wi))
@@ -333,6 +343,9 @@ func (c *comparison) addMissing(wi int) {
 }
 
 func (c *comparison) addExtra(gi int) {
+	if len(c.extraRows) < hintRowCap {
+		c.extraRows = append(c.extraRows, int32(gi))
+	}
 	c.d.Extra.Count++
 	if !c.d.listFull(len(c.extra)) {
 		c.extra = append(c.extra, int32(gi))
@@ -379,6 +392,7 @@ func (c *comparison) collect(results []*colResult) {
 	for _, w := range rows {
 		d.RowsDiffering += popcount(w)
 	}
+	c.diffRows = rows
 	cells.n = d.CellsDiffering
 	if d.Limit >= 0 {
 		cells.n = min(cells.n, d.Limit)

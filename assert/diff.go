@@ -67,6 +67,13 @@ type Diff struct {
 	// cells were compared, how many differ and the largest deltas.
 	Columns []ColumnSummary
 
+	// Hints are likely causes of the differences, each with the option
+	// or flag that would fix it: rows in another order, a kind change
+	// that LooseTypes accepts, a misspelt column name, keys that differ
+	// only in spelling, a column off by one factor. They never change
+	// Equal.
+	Hints []Hint
+
 	// Limit is the listing cap in force (negative: no cap).
 	Limit int
 

@@ -183,6 +183,16 @@ func ExampleDiff_JSON() {
 	//   "missing": [],
 	//   "extra": [],
 	//   "duplicates": [],
+	//   "hints": [
+	//     {
+	//       "kind": "loose_types",
+	//       "column": "tmin",
+	//       "text": "column \"tmin\" is float64 in want and int64 in got: with loose types numbers compare by value (3 equals 3.0)",
+	//       "option": "LooseTypes()",
+	//       "flag": "--loose-types",
+	//       "pairs": []
+	//     }
+	//   ],
 	//   "limit": 0
 	// }
 }

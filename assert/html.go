@@ -53,6 +53,9 @@ func (d *Diff) WriteHTML(w io.Writer) error {
 		}
 		h.close("ul")
 	}
+	if len(d.Hints) > 0 {
+		d.htmlHints(h)
+	}
 	if len(d.Schema) > 0 {
 		h.heading(fmt.Sprintf("Schema changes (%d)", len(d.Schema)))
 		h.table("ps-schema", []string{"column", "change", d.wantName(), d.gotName()})
@@ -119,6 +122,49 @@ func (d *Diff) WriteHTML(w io.Writer) error {
 	}
 	h.close("div")
 	return bw.Flush()
+}
+
+// htmlHints writes the hints as a list, each with its fixes, and near
+// matches side by side.
+func (d *Diff) htmlHints(h *htmlWriter) {
+	h.heading(capitalise(plural(len(d.Hints), "hint", "hints")))
+	h.open("ul", "ps-hints")
+	for _, hint := range d.Hints {
+		h.open("li", "ps-hint", "data-hint", string(hint.Kind))
+		h.elem("span", "", hint.Text)
+		if hint.Option != "" || hint.Flag != "" {
+			h.raw(" — fix with ")
+			if hint.Option != "" {
+				h.raw("Go ")
+				h.elem("code", "", hint.Option)
+			}
+			if hint.Option != "" && hint.Flag != "" {
+				h.raw("; ")
+			}
+			if hint.Flag != "" {
+				h.raw("command line ")
+				h.elem("code", "", hint.Flag)
+			}
+		}
+		if len(hint.Pairs) > 0 {
+			h.table("ps-near", []string{"missing row (want)", "extra row (got)", "differs by"})
+			for _, p := range hint.Pairs {
+				h.raw("<tr>")
+				h.elem("td", "ps-key ps-want", d.rowName(p.Missing))
+				h.elem("td", "ps-key ps-got", d.rowName(p.Extra))
+				h.elem("td", "", strings.Join(p.Why, ", "))
+				h.raw("</tr>\n")
+			}
+			if hint.Count > len(hint.Pairs) {
+				h.raw("<tr>")
+				h.elem("td", "", fmt.Sprintf("… %d more", hint.Count-len(hint.Pairs)))
+				h.raw("<td></td><td></td></tr>\n")
+			}
+			h.endTable()
+		}
+		h.close("li")
+	}
+	h.close("ul")
 }
 
 // htmlGrid writes the listed differing cells as a grid: one line per row

@@ -19,7 +19,8 @@ import (
 // columns[] {name, differing, max_abs_delta, max_rel_delta} and schema[]
 // {column, change, want, got} are fixed; the others (match, keys, the
 // column lists, rows_differing, problems, duplicate keys, the listed cells
-// and rows) complete the picture. Lists are never null, and a delta that
+// and rows, hints[] {kind, column, text, option, flag, name, suggest,
+// factor, offset, count, pairs[]}) complete the picture. Lists are never null, and a delta that
 // is not a finite number (an infinity) is written as null. The output is
 // the same for the same Diff, and DiffFromJSON reads it back.
 func (d *Diff) JSON() ([]byte, error) {
@@ -54,7 +55,20 @@ func (d *Diff) WriteJSON(w io.Writer) error {
 		Schema:         []jsonSchema{},
 		Columns:        []jsonColumn{},
 		Duplicates:     []jsonDup{},
+		Hints:          []jsonHint{},
 		Limit:          d.Limit,
+	}
+	for _, h := range d.Hints {
+		jh := jsonHint{Kind: string(h.Kind), Column: h.Column, Text: h.Text, Option: h.Option, Flag: h.Flag,
+			Name: h.Name, Suggest: h.Suggest, Count: h.Count, Pairs: []jsonNear{}}
+		if h.Kind == HintScale {
+			f, o := jsonNum(h.Factor), jsonNum(h.Offset)
+			jh.Factor, jh.Offset = &f, &o
+		}
+		for _, p := range h.Pairs {
+			jh.Pairs = append(jh.Pairs, jsonNear{Missing: *jsonRowOf(p.Missing), Extra: *jsonRowOf(p.Extra), Why: orEmpty(p.Why)})
+		}
+		out.Hints = append(out.Hints, jh)
 	}
 	if d.Match == "" {
 		out.Match = string(MatchByPosition)
@@ -201,7 +215,28 @@ type jsonDiff struct {
 	Missing        []jsonRow     `json:"missing"`
 	Extra          []jsonRow     `json:"extra"`
 	Duplicates     []jsonDup     `json:"duplicates"`
+	Hints          []jsonHint    `json:"hints"`
 	Limit          int           `json:"limit"`
+}
+
+type jsonHint struct {
+	Kind    string     `json:"kind"`
+	Column  string     `json:"column,omitempty"`
+	Text    string     `json:"text"`
+	Option  string     `json:"option,omitempty"`
+	Flag    string     `json:"flag,omitempty"`
+	Name    string     `json:"name,omitempty"`
+	Suggest string     `json:"suggest,omitempty"`
+	Factor  *jsonNum   `json:"factor,omitempty"`
+	Offset  *jsonNum   `json:"offset,omitempty"`
+	Count   int        `json:"count,omitempty"`
+	Pairs   []jsonNear `json:"pairs"`
+}
+
+type jsonNear struct {
+	Missing jsonRow  `json:"missing"`
+	Extra   jsonRow  `json:"extra"`
+	Why     []string `json:"why"`
 }
 
 type jsonDupCounts struct {
@@ -399,6 +434,21 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 	d.Cells = ListOf(cells...)
 	for _, k := range j.Duplicates {
 		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: k.Rows})
+	}
+	for _, jh := range j.Hints {
+		h := Hint{Kind: HintKind(jh.Kind), Column: jh.Column, Text: jh.Text, Option: jh.Option, Flag: jh.Flag,
+			Name: jh.Name, Suggest: jh.Suggest, Count: jh.Count}
+		if jh.Factor != nil {
+			h.Factor = float64(*jh.Factor)
+		}
+		if jh.Offset != nil {
+			h.Offset = float64(*jh.Offset)
+		}
+		for i := range jh.Pairs {
+			p := &jh.Pairs[i]
+			h.Pairs = append(h.Pairs, NearMatch{Missing: rowFromJSON(&p.Missing), Extra: rowFromJSON(&p.Extra), Why: p.Why})
+		}
+		d.Hints = append(d.Hints, h)
 	}
 	return d, nil
 }

@@ -43,6 +43,22 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 			p("- %s\n", mdEscape(pr))
 		}
 	}
+	if len(d.Hints) > 0 {
+		p("\n#### %s\n\n", capitalise(plural(len(d.Hints), "hint", "hints")))
+		for _, h := range d.Hints {
+			p("- %s%s\n", mdEscape(h.Text), mdFix(h))
+			if len(h.Pairs) > 0 {
+				p("\n  | missing row (want) | extra row (got) | differs by |\n  |---|---|---|\n")
+				for _, pr := range h.Pairs {
+					p("  | %s | %s | %s |\n", mdCode(d.rowName(pr.Missing)), mdCode(d.rowName(pr.Extra)), mdEscape(strings.Join(pr.Why, ", ")))
+				}
+				if h.Count > len(h.Pairs) {
+					p("  | … %d more | | |\n", h.Count-len(h.Pairs))
+				}
+				p("\n")
+			}
+		}
+	}
 	if len(d.Schema) > 0 {
 		p("\n#### Schema changes\n\n| column | change | %s | %s |\n|---|---|---|---|\n", d.wantName(), d.gotName())
 		for _, s := range d.Schema {
@@ -145,6 +161,21 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 		}
 	}
 	return b.Flush()
+}
+
+// mdFix writes the fix of a hint: the Go option and the flag.
+func mdFix(h Hint) string {
+	var fixes []string
+	if h.Option != "" {
+		fixes = append(fixes, "Go: "+mdCode(h.Option))
+	}
+	if h.Flag != "" {
+		fixes = append(fixes, "command line: "+mdCode(h.Flag))
+	}
+	if len(fixes) == 0 {
+		return ""
+	}
+	return " — fix with " + strings.Join(fixes, "; ")
 }
 
 func capitalise(s string) string {

@@ -25,6 +25,9 @@ type TextStyle struct {
 	// Long cells are cut with "…" to fit; the JSON and the Diff's fields
 	// keep them whole.
 	Width int
+	// Flags names the fixes of hints as proofsheet command-line flags
+	// (--any-row-order) instead of Go options (AnyRowOrder()).
+	Flags bool
 }
 
 // ANSI escape sequences of the colour style.
@@ -83,6 +86,9 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 				tw.line(mark + l)
 			}
 		}
+	}
+	if len(d.Hints) > 0 {
+		tw.hints(d)
 	}
 	if len(d.Schema) > 0 {
 		tw.section(fmt.Sprintf("schema changes (%d)", len(d.Schema)))
@@ -335,6 +341,40 @@ func (d *Diff) rowIndex(r RowRef) string {
 		return fmt.Sprintf("%d→%d", r.Want, r.Got)
 	}
 	return strconv.Itoa(r.Want)
+}
+
+// hints writes the hints, each with its fix, and near matches side by
+// side.
+func (w *textWriter) hints(d *Diff) {
+	w.section(plural(len(d.Hints), "hint", "hints"))
+	for _, h := range d.Hints {
+		for i, l := range wrap(h.Text, w.st.Width-4, 0) {
+			mark := "    "
+			if i == 0 {
+				mark = "  → "
+			}
+			w.line(mark + l)
+		}
+		fix := h.Option
+		if w.st.Flags {
+			fix = h.Flag
+		}
+		if fix != "" {
+			for _, l := range wrap("fix: "+fix, w.st.Width-4, 5) {
+				w.line("    " + l)
+			}
+		}
+		if len(h.Pairs) > 0 {
+			rows := [][]string{{"missing row (want)", "", "extra row (got)", "differs by"}}
+			for _, p := range h.Pairs {
+				rows = append(rows, []string{d.rowName(p.Missing), "⇄", d.rowName(p.Extra), strings.Join(p.Why, ", ")})
+			}
+			if h.Count > len(h.Pairs) {
+				rows = append(rows, []string{fmt.Sprintf("… %d more", h.Count-len(h.Pairs)), "", "", ""})
+			}
+			w.table(rows, nil, map[int]string{0: ansiWant, 2: ansiGot})
+		}
+	}
 }
 
 // rowList writes missing or extra rows as a small table of their cells.

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"io"
 	"strconv"
 	"strings"
@@ -8,7 +9,17 @@ import (
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/golden"
+	"github.com/proofsheet/proofsheet/internal/suggest"
 )
+
+// didYouMean returns ": did you mean "X"?" when a name among names is
+// close to typed, else "".
+func didYouMean(typed string, names []string) string {
+	if best, ok := suggest.Closest(typed, names); ok {
+		return fmt.Sprintf(": did you mean %q?", best)
+	}
+	return ""
+}
 
 func diffCommand() *command {
 	c := &command{
@@ -134,7 +145,8 @@ func runDiff(e *env, c *command, args []string) int {
 	for _, col := range named {
 		if col != assert.AllColumns && want.Column(col) == nil && got.Column(col) == nil {
 			bar.finish()
-			return trouble(e, c, "no column %q in either file (want: %s; got: %s)", col, strings.Join(want.Names(), ", "), strings.Join(got.Names(), ", "))
+			return trouble(e, c, "no column %q in either file%s (want: %s; got: %s)", col,
+				didYouMean(col, append(want.Names(), got.Names()...)), strings.Join(want.Names(), ", "), strings.Join(got.Names(), ", "))
 		}
 	}
 	if want.NumRows()+got.NumRows() >= 100_000 {
@@ -159,7 +171,7 @@ func runDiff(e *env, c *command, args []string) int {
 			rv := &golden.Review{Title: "Table comparison", Noun: "table", Against: files[0], Files: []golden.FileReview{golden.ReviewDiff(files[1], d)}}
 			return rv.WriteHTML(w)
 		}
-		return d.WriteText(w, assert.TextStyle{Color: *out == "" && useColor(e, e.stdout)})
+		return d.WriteText(w, assert.TextStyle{Color: *out == "" && useColor(e, e.stdout), Flags: true})
 	}
 	if err := writeResultWith(e, *out, write); err != nil {
 		return trouble(e, c, "%v", err)

@@ -74,6 +74,46 @@ func TestDiffExitStatusAndFormats(t *testing.T) {
 	require.Contains(t, r.stdout, "1 table differs")
 }
 
+// TestDiffHints checks that the command line shows each hint with the
+// flag that fixes it, and none where nothing fits.
+func TestDiffHints(t *testing.T) {
+	dir := writeFiles(t, map[string]string{
+		"want.csv":     dailyWant,
+		"shuffled.csv": "house,day,tmax,kept\nMas,2026-04-02,17,120\nÉtang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\n",
+		"floats.csv":   "house,day,tmax,kept\nÉtang,2026-04-01,21.5,140.0\nLes Pins,2026-04-01,18.25,139.5\nMas,2026-04-02,17,120.0\n",
+		"pct.csv":      "house,day,tmax,kept\nÉtang,2026-04-01,2150,140\nLes Pins,2026-04-01,1825,139\nMas,2026-04-02,1700,120\n",
+		// Source: WHATWG Encoding Standard — É is C3 89 in UTF-8; read as
+		// windows-1252 those bytes are Ã (U+00C3) and ‰ (U+2030).
+		"mojibake.csv": "house,day,tmax,kept\nÃ‰tang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n",
+	})
+	f := func(name string) string { return filepath.Join(dir, name) }
+	cases := []struct {
+		name  string
+		args  []string
+		shows []string
+	}{
+		{"rows in another order", []string{f("want.csv"), f("shuffled.csv")}, []string{"the tables hold the same rows in another order", "fix: --key house or --any-row-order"}},
+		{"int64 became float64", []string{"--key", "house,day", f("want.csv"), f("floats.csv")}, []string{`column "kept" is int64 in want and float64 in got`, "fix: --loose-types"}},
+		{"a column ×100", []string{"--key", "house,day", f("want.csv"), f("pct.csv")}, []string{`every cell of column "tmax" in got is its want cell × 100`}},
+		{"a key in another encoding", []string{"--key", "house,day", f("want.csv"), f("mojibake.csv")}, []string{"differ only by encoding", "⇄"}},
+		{"no hint", []string{"--key", "house,day", f("want.csv"), f("want.csv")}, nil},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			r := runBin(t, "", nil, append([]string{"diff"}, c.args...)...)
+			require.Empty(t, r.stderr)
+			for _, s := range c.shows {
+				require.Contains(t, r.stdout, s)
+			}
+			if c.shows == nil {
+				require.NotContains(t, r.stdout, "hint")
+			} else {
+				require.NotContains(t, r.stdout, "fix: AnyRowOrder", "the command line names flags")
+			}
+		})
+	}
+}
+
 func TestDiffOptions(t *testing.T) {
 	dir := writeFiles(t, map[string]string{
 		"want.csv":     dailyWant,
@@ -230,7 +270,7 @@ func TestDiffBadInput(t *testing.T) {
 		{"bad tol: mixed ulp", []string{"--tol", "tmax=ulp:2,abs:1", f("want.csv"), f("got.csv")}, "ulp stands alone"},
 		{"key and any order", []string{"--key", "house", "--any-row-order", f("want.csv"), f("got.csv")}, "exclude each other"},
 		{"empty key", []string{"--key", ",", f("want.csv"), f("got.csv")}, "--key: no column named"},
-		{"a key in neither file", []string{"--key", "hause", f("want.csv"), f("got.csv")}, `no column "hause" in either file (want: house, day, tmax, kept;`},
+		{"a key in neither file", []string{"--key", "hause", f("want.csv"), f("got.csv")}, `no column "hause" in either file: did you mean "house"? (want: house, day, tmax, kept;`},
 		{"a tolerance for no column", []string{"--tol", "tmx=abs:1", f("want.csv"), f("got.csv")}, `no column "tmx"`},
 		{"ignoring no column", []string{"--ignore", "nte", f("want.csv"), f("got.csv")}, `no column "nte"`},
 		{"bad max-cells", []string{"--max-cells", "many", f("want.csv"), f("got.csv")}, "invalid value"},

@@ -146,7 +146,7 @@ func runReview(e *env, c *command, args []string) int {
 	case "html":
 		report = []byte(rv.HTML())
 	case "text":
-		report = []byte(rv.TextWith(assert.TextStyle{Color: *out == "" && useColor(e, e.stdout)}))
+		report = []byte(rv.TextWith(assert.TextStyle{Color: *out == "" && useColor(e, e.stdout), Flags: true}))
 	default:
 		report = []byte(rv.Markdown())
 	}
