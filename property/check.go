@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -72,33 +73,47 @@ func fileTrial(fn FileFunc, f *File) *trial {
 	}
 }
 
-// verdicts checks all invariants on one trial; "" when all hold.
-func verdicts(tr *trial, invs []Invariant) string {
+// broken is one invariant a sample breaks and why.
+type broken struct {
+	name, msg string
+}
+
+// verdicts checks every invariant on one trial and returns those broken,
+// in the order given.
+func verdicts(tr *trial, invs []Invariant) []broken {
 	if len(invs) == 0 {
 		invs = []Invariant{NoPanic()}
 	}
+	var out []broken
 	for _, inv := range invs {
 		if m := inv.verdict(tr); m != "" {
-			return inv.name + ": " + m
+			out = append(out, broken{inv.name, m})
 		}
 	}
-	return ""
+	return out
 }
 
 // failures remembers, for each generated value that failed, the class of
-// its failure, so that shrinking keeps only candidates that fail the same
-// way: a candidate that fails otherwise (say, with an error because a
-// needed column was dropped) counts as passing.
+// its failure — which invariants it broke, and how — so that shrinking
+// keeps only candidates that fail the same way: a candidate that breaks
+// other invariants, or the same ones otherwise (say, with an error because
+// a needed column was dropped), counts as passing.
 type failures struct {
 	mu    sync.Mutex
 	class map[any]string
 }
 
-func (fs *failures) judge(root any, isRoot bool, msg string) *gopter.PropResult {
-	if msg == "" {
+func (fs *failures) judge(root any, isRoot bool, bs []broken) *gopter.PropResult {
+	if len(bs) == 0 {
 		return &gopter.PropResult{Status: gopter.PropTrue}
 	}
-	c := classOf(msg)
+	classes := make([]string, len(bs))
+	labels := make([]string, len(bs))
+	for i, b := range bs {
+		classes[i] = b.name + ": " + classOf(b.msg)
+		labels[i] = b.name + ": " + b.msg
+	}
+	c := strings.Join(classes, "\n")
 	fs.mu.Lock()
 	defer fs.mu.Unlock()
 	if fs.class == nil {
@@ -109,7 +124,7 @@ func (fs *failures) judge(root any, isRoot bool, msg string) *gopter.PropResult 
 	} else if want, ok := fs.class[root]; ok && want != c {
 		return &gopter.PropResult{Status: gopter.PropTrue}
 	}
-	return &gopter.PropResult{Status: gopter.PropFalse, Labels: []string{msg}}
+	return &gopter.PropResult{Status: gopter.PropFalse, Labels: labels}
 }
 
 var (
@@ -128,8 +143,9 @@ func classOf(msg string) string {
 // Prop returns a gopter property that the table function has all the
 // invariants (NoPanic when none is given) on every sample gen draws. gen
 // must draw *Sample values, as Tables does; failing samples shrink with
-// gen's shrinker, keeping to candidates that fail the same way. Use it
-// inside your own gopter.Properties:
+// gen's shrinker, keeping to candidates that break the same invariants in
+// the same way. The result's labels give each broken invariant, "name:
+// why". Use it inside your own gopter.Properties:
 //
 //	props := gopter.NewProperties(nil)
 //	props.Property("cleanup", property.Prop(clean, property.Tables(schema, opts), property.Idempotent()))
@@ -167,15 +183,18 @@ func seedFor(opts Options) (int64, string, error) {
 }
 
 // Check tests a table function against the invariants (NoPanic when none
-// is given) on Options.Runs generated samples of the schema, each
-// invariant on its own. A failing sample is shrunk; the report gives the
-// seed, how to re-run with it, why the invariant failed and the shrunk raw
-// table as code ready to paste into a regression test. Check returns
+// is given) on Options.Runs generated samples of the schema. A failing
+// sample is shrunk while it breaks the same invariants in the same way,
+// and reported once, listing every invariant it breaks: the seed, how to
+// re-run with it, why each invariant failed and the shrunk raw table as
+// code ready to paste into a regression test. The invariants that held on
+// it are then checked on further samples, so a second counterexample
+// shows only for invariants the first did not break. Check returns
 // whether every invariant held.
 func Check(t TB, schema fixtures.Schema, fn Func, opts Options, invs ...Invariant) bool {
 	t.Helper()
-	return check(t, schema, opts, invs, func(inv Invariant) gopter.Prop {
-		return Prop(fn, Tables(schema, opts), inv)
+	return check(t, schema, opts, invs, func(active []Invariant) gopter.Prop {
+		return Prop(fn, Tables(schema, opts), active...)
 	})
 }
 
@@ -185,12 +204,12 @@ func Check(t TB, schema fixtures.Schema, fn Func, opts Options, invs ...Invarian
 // styles; shrinking also makes the style plainer.
 func CheckFiles(t TB, schema fixtures.Schema, fn FileFunc, opts Options, invs []Invariant, styles ...CSVStyle) bool {
 	t.Helper()
-	return check(t, schema, opts, invs, func(inv Invariant) gopter.Prop {
-		return FileProp(fn, Files(schema, opts, styles...), inv)
+	return check(t, schema, opts, invs, func(active []Invariant) gopter.Prop {
+		return FileProp(fn, Files(schema, opts, styles...), active...)
 	})
 }
 
-func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func(Invariant) gopter.Prop) bool {
+func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func([]Invariant) gopter.Prop) bool {
 	t.Helper()
 	c, err := opts.compile(schema)
 	if err != nil {
@@ -205,26 +224,59 @@ func check(t TB, schema fixtures.Schema, opts Options, invs []Invariant, mk func
 	if len(invs) == 0 {
 		invs = []Invariant{NoPanic()}
 	}
+	active := invs
 	ok := true
-	for _, inv := range invs {
+	for len(active) > 0 {
 		params := gopter.DefaultTestParametersWithSeed(seed)
 		params.MinSuccessfulTests = c.runs
 		params.MinSize = c.minRows
 		params.MaxSize = c.maxRows
-		res := mk(inv).Check(params)
+		res := mk(active).Check(params)
 		if res.Passed() {
-			continue
+			break
 		}
 		ok = false
-		t.Errorf("%s", report(t.Name(), inv, seed, from, res))
+		names := brokenNames(active, res)
+		t.Errorf("%s", report(t.Name(), names, seed, from, res))
+		if len(names) == 0 {
+			break
+		}
+		active = slices.DeleteFunc(slices.Clone(active), func(inv Invariant) bool { return slices.Contains(names, inv.name) })
 	}
 	return ok
 }
 
-// report writes a failed check for a person to act on.
-func report(test string, inv Invariant, seed int64, from string, res *gopter.TestResult) string {
+// brokenNames returns the names of the invariants a failed result's
+// labels give, in the order of invs.
+func brokenNames(invs []Invariant, res *gopter.TestResult) []string {
+	var out []string
+	for _, inv := range invs {
+		for _, l := range res.Labels {
+			if strings.HasPrefix(l, inv.name+": ") {
+				out = append(out, inv.name)
+				break
+			}
+		}
+	}
+	return out
+}
+
+// report writes a failed check for a person to act on: one counterexample
+// and every invariant it breaks.
+func report(test string, names []string, seed int64, from string, res *gopter.TestResult) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "property: invariant %q failed after %d passing samples\n", inv.name, res.Succeeded)
+	switch len(names) {
+	case 0:
+		fmt.Fprintf(&b, "property: the check failed after %d passing samples\n", res.Succeeded)
+	case 1:
+		fmt.Fprintf(&b, "property: invariant %q failed after %d passing samples\n", names[0], res.Succeeded)
+	default:
+		q := make([]string, len(names))
+		for i, n := range names {
+			q[i] = strconv.Quote(n)
+		}
+		fmt.Fprintf(&b, "property: %d invariants failed on the same sample after %d passing samples: %s\n", len(names), res.Succeeded, strings.Join(q, ", "))
+	}
 	fmt.Fprintf(&b, "seed %d (%s); re-run with: %s=%d go test -run '%s'\n", seed, from, SeedEnv, seed, runPattern(test))
 	switch res.Status {
 	case gopter.TestError:

@@ -318,3 +318,76 @@ func TestRunPattern(t *testing.T) {
 	require.Equal(t, "^TestA$", runPattern("TestA"))
 	require.Equal(t, `^TestA$/^case_1\.5$`, runPattern("TestA/case_1.5"))
 }
+
+func TestCheckPrintsOneCounterexampleForEveryInvariantItBreaks(t *testing.T) {
+	t.Setenv(SeedEnv, "")
+	// Fails two invariants on any input with a "$": the result keeps the
+	// dollar rows only, and drops the house.
+	dollars := func(in *fixtures.Table) (*fixtures.Table, error) {
+		temp := in.Column("temp_c")
+		var keep []int
+		for i := 0; temp != nil && i < in.NumRows(); i++ {
+			if !temp.IsNull(i) && strings.Contains(temp.Str(i), "$") {
+				keep = append(keep, i)
+			}
+		}
+		return in.Take(keep)
+	}
+	ft := &fakeT{name: "TestDollars"}
+	ok := Check(ft, readings, dollars, Options{Seed: 7, Mess: Light, MessRate: 0.5, DuplicateRate: -1},
+		SameOnPlain(), NoNulls("temp_c"), OrderFree(), Holds("never more rows than in", func(s *Sample, out *fixtures.Table) error {
+			if out.NumRows() > s.NumRows() {
+				return fmt.Errorf("more rows")
+			}
+			return nil
+		}))
+	require.False(t, ok)
+	require.Len(t, ft.msgs, 1, "one counterexample:\n%s", ft.text())
+	rep := ft.msgs[0]
+	require.Contains(t, rep, `property: invariant "same on plain spellings" failed after`)
+	require.Equal(t, 1, strings.Count(rep, "paste it into a test"), rep)
+	require.Contains(t, rep, "same on plain spellings: ")
+	require.NotContains(t, rep, "row order free: ", "order does not matter to it")
+	tb := snippet(t, rep)
+	require.Equal(t, 1, tb.NumRows(), rep)
+	require.Equal(t, "$0.00", tb.Column("temp_c").Str(0), "the value shrinks to zero, the $ kept")
+
+	// Two invariants broken by one sample: listed together, once.
+	both := func(in *fixtures.Table) (*fixtures.Table, error) {
+		if in.NumRows() > 0 {
+			return nil, fmt.Errorf("cannot read %d rows", in.NumRows())
+		}
+		return in, nil
+	}
+	ft = &fakeT{name: "TestBoth"}
+	require.False(t, Check(ft, readings, both, Options{Seed: 2}, Idempotent(), NoNulls("temp_c"), NoPanic()))
+	require.Len(t, ft.msgs, 1, ft.text())
+	rep = ft.msgs[0]
+	require.Contains(t, rep, `property: 2 invariants failed on the same sample after `)
+	require.Contains(t, rep, `"idempotent", "no nulls in temp_c"`)
+	require.Contains(t, rep, "idempotent: the function returned an error: cannot read 1 rows\n")
+	require.Contains(t, rep, "no nulls in temp_c: the function returned an error: cannot read 1 rows\n")
+	require.Equal(t, 1, strings.Count(rep, "paste it into a test"))
+
+	// Invariants that held on the first counterexample are checked on, and
+	// one that breaks on another sample gets its own report.
+	identity := func(in *fixtures.Table) (*fixtures.Table, error) { return in, nil }
+	odd := Holds("an even number of rows", func(s *Sample, _ *fixtures.Table) error {
+		if s.NumRows()%2 == 1 {
+			return fmt.Errorf("%d rows", s.NumRows())
+		}
+		return nil
+	})
+	many := Holds("fewer than 4 rows", func(s *Sample, _ *fixtures.Table) error {
+		if s.NumRows() >= 4 && s.NumRows()%2 == 0 {
+			return fmt.Errorf("%d rows", s.NumRows())
+		}
+		return nil
+	})
+	ft = &fakeT{name: "TestLater"}
+	require.False(t, Check(ft, readings, identity, Options{Seed: 2, MinRows: 1}, odd, many))
+	require.Len(t, ft.msgs, 2, ft.text())
+	require.Contains(t, ft.msgs[0], `property: invariant "an even number of rows" failed`)
+	require.Contains(t, ft.msgs[1], `property: invariant "fewer than 4 rows" failed`)
+	require.Equal(t, 4, snippet(t, ft.msgs[1]).NumRows())
+}

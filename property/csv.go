@@ -195,6 +195,9 @@ func GenerateFile(schema fixtures.Schema, rows int, seed int64, opts Options, st
 	if rows < 0 {
 		return nil, fmt.Errorf("property: %d rows", rows)
 	}
+	if err := c.checkCapacity(schema, rows, "the rows asked for,"); err != nil {
+		return nil, err
+	}
 	c.fits = fitsFor(st.Encoding)
 	s := generate(schema, rows, seed, c)
 	data, err := s.CSV(st)

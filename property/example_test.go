@@ -126,17 +126,20 @@ func ExampleCheck() {
 	fmt.Println("all invariants hold:", ok)
 
 	// The same step on heavy mess: the report names the seed and the
-	// smallest raw table that breaks it.
-	property.Check(printT{}, schema, cleanTemps, property.Options{Seed: 1, Mess: property.Heavy}, property.SameOnPlain())
+	// smallest raw table that breaks it, with simple values, once for all
+	// the invariants it breaks.
+	property.Check(printT{}, schema, cleanTemps, property.Options{Seed: 1, Mess: property.Heavy},
+		property.SameOnPlain(), property.NoNulls("temp_c"))
 	// Output:
 	// all invariants hold: true
-	// property: invariant "same on plain spellings" failed after 1 passing samples
+	// property: 2 invariants failed on the same sample after 1 passing samples: "same on plain spellings", "no nulls in temp_c"
 	// seed 1 (from Options.Seed); re-run with: PROOFSHEET_SEED=1 go test -run '^TestCleanTemps$'
-	// same on plain spellings: the function returned an error: row 1: strconv.ParseFloat: parsing "230936%": invalid syntax
-	// sample seed 4037200794235010051: 1 row × 3 columns, shrunk in 3 steps to 1 row × 1 column; paste it into a test:
+	// same on plain spellings: the function returned an error: row 1: strconv.ParseFloat: parsing "0%": invalid syntax
+	// no nulls in temp_c: the function returned an error: row 1: strconv.ParseFloat: parsing "0%": invalid syntax
+	// sample seed 4037200794235010051: 1 row × 3 columns, shrunk in 4 steps to 1 row × 1 column; paste it into a test:
 	// 	raw := fixtures.MustParse(t, `
 	// 		temp_c:string
-	// 		230936%
+	// 		0%
 	// 	`)
 }
 
@@ -168,10 +171,10 @@ func ExampleShrink() {
 	fmt.Println("steps:", steps)
 	fmt.Print(property.PasteReady("raw", small.Raw()))
 	// Output:
-	// steps: 14
+	// steps: 28
 	// raw := fixtures.MustParse(t, `
 	// 	temp_c:string
-	// 	"754\u202f900,30\u00a0€"
+	// 	"1\u202f000,00\u00a0€"
 	// `)
 }
 

@@ -533,11 +533,9 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 			return nil, err
 		}
 		c.cols[j] = cc
-		if cc.unique != AnyValues {
-			if n := cc.capacity(f, c, c.maxRows); n < c.maxRows {
-				return nil, fmt.Errorf("property: column %q: only %d distinct values fit its rules, fewer than MaxRows %d", f.Name, n, c.maxRows)
-			}
-		}
+	}
+	if err := c.checkCapacity(schema, c.maxRows, "MaxRows"); err != nil {
+		return nil, err
 	}
 	if err := c.checkProducible(schema, o); err != nil {
 		return nil, err
@@ -732,4 +730,19 @@ func (g *colGen) canMake(m Mess) bool {
 		}
 	}
 	return false
+}
+
+// checkCapacity refuses unique columns whose rules leave fewer distinct
+// values than rows.
+func (c *config) checkCapacity(schema fixtures.Schema, rows int, what string) error {
+	for j, f := range schema {
+		cc := c.cols[j]
+		if cc.unique == AnyValues {
+			continue
+		}
+		if n := cc.capacity(f, c, rows); n < rows {
+			return fmt.Errorf("property: column %q: only %d distinct values fit its rules, fewer than %s %d", f.Name, n, what, rows)
+		}
+	}
+	return nil
 }

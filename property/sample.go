@@ -36,6 +36,7 @@ type Sample struct {
 	rows []rawRow
 	recs [][]any // clean values of each record, in schema order
 	root *Sample // the generated sample this one was shrunk or derived from; nil for that one
+	cfg  *config // the options it was generated with; nil for a sample built by hand
 
 	rawOnce, plainOnce, cleanOnce, rankOnce sync.Once
 	raw, plain, clean                       *fixtures.Table
@@ -65,6 +66,9 @@ func Generate(schema fixtures.Schema, rows int, seed int64, opts Options) (*Samp
 	if rows < 0 {
 		return nil, fmt.Errorf("property: %d rows", rows)
 	}
+	if err := c.checkCapacity(schema, rows, "the rows asked for,"); err != nil {
+		return nil, err
+	}
 	return generate(schema, rows, seed, c), nil
 }
 
@@ -81,7 +85,7 @@ func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
 		gens[j] = newColGen(f, c, c.cols[j])
 		crs[j] = root.split()
 	}
-	s := &Sample{Seed: seed, Schema: append(fixtures.Schema(nil), schema...)}
+	s := &Sample{Seed: seed, Schema: append(fixtures.Schema(nil), schema...), cfg: c}
 
 	// Columns: drop some, add some, maybe shuffle.
 	keep := make([]bool, len(schema))
@@ -379,7 +383,7 @@ func (s *Sample) String() string {
 // derive returns a sample sharing s's schema, records and columns, with
 // the given rows.
 func (s *Sample) derive(cols []rawCol, rows []rawRow) *Sample {
-	return &Sample{Seed: s.Seed, Schema: s.Schema, cols: cols, rows: rows, recs: s.recs, root: s.origin()}
+	return &Sample{Seed: s.Seed, Schema: s.Schema, cols: cols, rows: rows, recs: s.recs, root: s.origin(), cfg: s.cfg}
 }
 
 // origin returns the generated sample s derives from (s itself when it

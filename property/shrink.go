@@ -11,7 +11,8 @@ import (
 
 // The shrink order, for a sample: drop rows (all of them, then halves,
 // quarters, … down to single rows), drop columns, spell header names
-// plainly, spell cells plainly. Each stream is lazy, so a check runs the
+// plainly, spell cells plainly, make values simpler (see values.go),
+// number sequences anew. Each stream is lazy, so a check runs the
 // function only on the candidates it needs; a greedy search takes the
 // first candidate that still fails and starts again from it.
 
@@ -22,6 +23,9 @@ func shrinkStream(s *Sample) func() (*Sample, bool) {
 	k, start := n, 0 // row chunk size and position
 	j := 0           // column
 	ci, cj := 0, 0   // cell
+	var kept []int   // records, for values
+	vk, vf := 0, 0   // value: index into kept, schema column
+	var pending []*Sample
 	return func() (*Sample, bool) {
 		for {
 			switch stage {
@@ -83,11 +87,59 @@ func shrinkStream(s *Sample) func() (*Sample, bool) {
 					continue
 				}
 				return s.withCell(i, jj, p), true
+			case 4: // values
+				if len(pending) > 0 {
+					c := pending[0]
+					pending = pending[1:]
+					return c, true
+				}
+				if kept == nil {
+					kept = s.keptRecords()
+					if s.cfg == nil {
+						kept = kept[:0]
+					}
+				}
+				if vk >= len(kept) {
+					stage++
+					vf = 0
+					continue
+				}
+				k, f := kept[vk], vf
+				if vf++; vf >= len(s.Schema) {
+					vf = 0
+					vk++
+				}
+				if !s.hasRawColumn(f) {
+					continue
+				}
+				for _, v := range s.valueCandidates(k, f) {
+					pending = append(pending, s.withValue(k, f, v))
+				}
+			case 5: // sequences numbered anew
+				if s.cfg == nil || vf >= len(s.Schema) {
+					stage++
+					continue
+				}
+				f := vf
+				vf++
+				if c := s.renumbered(f); c != nil {
+					return c, true
+				}
 			default:
 				return nil, false
 			}
 		}
 	}
+}
+
+// hasRawColumn reports whether schema column f is among the raw columns.
+func (s *Sample) hasRawColumn(f int) bool {
+	for _, c := range s.cols {
+		if c.field == f {
+			return true
+		}
+	}
+	return false
 }
 
 // withCell returns s with cell (i, j) replaced.
@@ -153,8 +205,13 @@ const maxShrinkSteps = 10000
 // reports true, starting from s (which should fail), and the number of
 // steps taken. It tries, in order: dropping rows (all, then halves,
 // quarters, … single rows), dropping columns, spelling header names
-// plainly and spelling cells plainly, taking the first candidate that
-// fails and starting again from it until none does.
+// plainly, spelling cells plainly, and making each value simpler within
+// its column's rules (numbers toward 0 or the nearest bound, then 1,
+// whole numbers and fewer decimals; strings shorter; dates toward
+// 1970-01-01; levels and allowed values toward the first; false), taking
+// the first candidate that fails and starting again from it until none
+// does. A simpler value keeps its cell's mess when it can carry it and
+// changes the columns derived from it.
 func Shrink(s *Sample, fails func(*Sample) bool) (*Sample, int) {
 	return greedy(s, shrinkStream, fails)
 }
