@@ -107,13 +107,11 @@ func (fs *failures) judge(root any, isRoot bool, bs []broken) *gopter.PropResult
 	if len(bs) == 0 {
 		return &gopter.PropResult{Status: gopter.PropTrue}
 	}
-	classes := make([]string, len(bs))
 	labels := make([]string, len(bs))
 	for i, b := range bs {
-		classes[i] = b.name + ": " + classOf(b.msg)
 		labels[i] = b.name + ": " + b.msg
 	}
-	c := strings.Join(classes, "\n")
+	c := classesOf(bs)
 	fs.mu.Lock()
 	defer fs.mu.Unlock()
 	if fs.class == nil {
@@ -129,12 +127,12 @@ func (fs *failures) judge(root any, isRoot bool, bs []broken) *gopter.PropResult
 
 var (
 	quotedText = regexp.MustCompile(`"(?:[^"\\]|\\.)*"`)
-	digitRun   = regexp.MustCompile(`[0-9]+`)
+	digitRun   = regexp.MustCompile(`[0-9]+([.,][0-9]+)*`)
 )
 
 // classOf reduces a failure message to its kind: the first line with
-// quoted text and numbers blanked, so that the same failure on other data
-// has the same class.
+// quoted text and numbers (with their decimal marks) blanked, so that the
+// same failure on other data, or on simpler values, has the same class.
 func classOf(msg string) string {
 	first, _, _ := strings.Cut(msg, "\n")
 	return digitRun.ReplaceAllString(quotedText.ReplaceAllString(first, `"…"`), "#")

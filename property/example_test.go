@@ -205,3 +205,38 @@ func ExampleTwoDigitYear() {
 	fmt.Println(property.TwoDigitYear(24), property.TwoDigitYear(69))
 	// Output: 2024 1969
 }
+
+// A fuzz target's bytes become the random source of a sample, so Go's
+// fuzzer explores messy tables with its coverage guidance and corpus, and
+// a saved crasher replays as the same table. property.Fuzz wires it up:
+//
+//	func FuzzCleanTemps(f *testing.F) {
+//		property.Fuzz(f, schema, cleanTemps, property.Options{Mess: property.Heavy},
+//			property.NoPanic(), property.Idempotent())
+//	}
+//
+// FromBytes is the step inside it.
+func ExampleFromBytes() {
+	opts := property.Options{Locale: "en-GB", Mess: property.Light, MaxRows: 4}
+	data := make([]byte, 300) // what go test -fuzz would hand the target
+	for i := range data {
+		data[i] = byte(i*167 + 13)
+	}
+	s, err := property.FromBytes(schema, opts, data)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Print(s.Raw())
+	again, _ := property.FromBytes(schema, opts, data)
+	fmt.Println("same table again:", again.Raw().Literal() == s.Raw().Literal())
+	empty, _ := property.FromBytes(schema, opts, nil)
+	fmt.Println("rows from no bytes:", empty.NumRows())
+	// Output:
+	// house:string | day:string | temp_c:string
+	// Étang        | 2024.02.27 | 2.6
+	// søndergård   | 2030-08-03 | -246802
+	// Étang        | 1995-01-01 | 0
+	// same table again: true
+	// rows from no bytes: 0
+}

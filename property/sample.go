@@ -77,7 +77,12 @@ func Generate(schema fixtures.Schema, rows int, seed int64, opts Options) (*Samp
 var extraNames = []string{"logger_id", "battery_v", "comment", "firmware", "uploaded_by"}
 
 func generate(schema fixtures.Schema, n int, seed int64, c *config) *Sample {
-	root := newRng(seed)
+	return generateFrom(schema, n, seed, newRng(seed), c)
+}
+
+// generateFrom makes a sample drawing from root; seed is recorded as the
+// sample's.
+func generateFrom(schema fixtures.Schema, n int, seed int64, root *rng, c *config) *Sample {
 	sr := root.split() // structure: columns, duplicates, order
 	gens := make([]*colGen, len(schema))
 	crs := make([]*rng, len(schema))
