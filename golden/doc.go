@@ -129,7 +129,7 @@
 // kind (tables with assert.Compare, text by line, JSON by path);
 // ReviewRecords builds a Review from run records. A Review renders as Text,
 // Markdown (for a pull-request comment), JSON and one self-contained HTML
-// page. The proofsheet review command builds one from git.
+// page. The proofsheet changes command builds one from git.
 //
 // # Concurrency
 //

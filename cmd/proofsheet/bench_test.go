@@ -94,12 +94,12 @@ func BenchmarkDiffParquet(b *testing.B) {
 	}
 }
 
-// BenchmarkReview50 runs the review command in-process, to HTML, on a git
+// BenchmarkChanges50 runs the changes command in-process, to HTML, on a git
 // repository where 50 golden tables of 500 rows changed. The target is
 // under 2 seconds a review.
 //
 //	go test ./cmd/proofsheet -run '^$' -bench Review50 -benchtime 3x
-func BenchmarkReview50(b *testing.B) {
+func BenchmarkChanges50(b *testing.B) {
 	old, cur := map[string]string{}, map[string]string{}
 	for f := 0; f < 50; f++ {
 		var ob, nb strings.Builder
@@ -121,15 +121,15 @@ func BenchmarkReview50(b *testing.B) {
 	repo := newRepo(b, old)
 	writeTree(b, repo, cur)
 	b.Chdir(repo)
-	c := reviewCommand()
+	c := changesCommand()
 	var total time.Duration
 	for b.Loop() {
 		t0 := time.Now()
 		if code := c.run(quietEnv(), []string{"--format", "html"}); code != exitDiffers {
-			b.Fatalf("review exited %d, want %d", code, exitDiffers)
+			b.Fatalf("changes exited %d, want %d", code, exitDiffers)
 		}
 		total += time.Since(t0)
 	}
-	b.ReportMetric(total.Seconds()/float64(b.N), "s/review")
+	b.ReportMetric(total.Seconds()/float64(b.N), "s/summary")
 	b.ReportMetric(total.Seconds()/float64(b.N)/2, "x-vs-2s")
 }

@@ -134,7 +134,7 @@ func TestReviewPageInBrowser(t *testing.T) {
 	require.Equal(t, 2, unchanged)
 
 	page := filepath.Join(t.TempDir(), "review.html")
-	r := runBin(t, repo, noEnv, "review", "--format", "html", "--tol", "*=rel:1e-12", "--max-cells", "-1", "--out", page)
+	r := runBin(t, repo, noEnv, "changes", "--format", "html", "--tol", "*=rel:1e-12", "--max-cells", "-1", "--out", page)
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 
 	shot, facts := openInBrowser(t, page)

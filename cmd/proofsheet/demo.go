@@ -171,7 +171,7 @@ func runDemo(e *env, c *command, args []string) int {
 		}, assert.Tol("*", greenhouse.GoldenTolerance, 0), assert.ListLimit(5))},
 	}
 	say("\nThe author runs `go test ./... -update` and commits the new golden file. CI runs\n" +
-		"`proofsheet review --format markdown` and posts this on the pull request:\n\n")
+		"`proofsheet changes --format markdown` and posts this on the pull request:\n\n")
 	say("%s", indent(rv.Markdown(), "  "))
 	if *htmlOut != "" {
 		// The page lists every changed cell.

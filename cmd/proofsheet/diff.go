@@ -5,6 +5,7 @@ import (
 	"io"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
@@ -48,8 +49,12 @@ Options:
                      written only when the comparison could be made
   --max-cells N      list at most N differing cells, missing and extra
                      rows (default 20; -1 lists all); counts stay exact
+  --junit FILE       also write a JUnit XML report to FILE: one test case,
+                     failed with the text diff when the tables differ
   --quiet            draw no progress bar
 
+When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown
+report is appended to it. The JSON has a "schema_version" field.
 Text goes to a terminal in colour unless NO_COLOR is set. A progress bar
 shows on stderr while large files load, when stderr is a terminal.
 
@@ -67,7 +72,7 @@ trouble (a file that cannot be read, a bad option).
 	return c
 }
 
-// reportFormats are the --format values of diff and review.
+// reportFormats are the --format values of diff and changes.
 var reportFormats = map[string]bool{"text": true, "markdown": true, "json": true, "html": true}
 
 func runDiff(e *env, c *command, args []string) int {
@@ -82,10 +87,27 @@ func runDiff(e *env, c *command, args []string) int {
 	format := fs.String("format", "text", "")
 	out := fs.String("out", "", "")
 	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
+	junit := fs.String("junit", "", "")
 	quiet := fs.Bool("quiet", false, "")
 	files, status, ok := parseFlags(e, c, fs, args)
 	if !ok {
 		return status
+	}
+	if err := checkJUnit(*junit); err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	start := time.Now()
+	suite := &junitSuite{name: "proofsheet diff"}
+	// fail reports trouble, in the JUnit report too once there are files.
+	fail := func(format string, args ...any) int {
+		if len(files) == 2 {
+			suite.cases = []junitCase{{name: files[1] + " against " + files[0], class: "proofsheet.diff", errMsg: fmt.Sprintf(format, args...)}}
+			suite.took = time.Since(start)
+			if err := suite.write(*junit); err != nil {
+				fmt.Fprintf(e.stderr, "proofsheet %s: %v\n", c.name, err)
+			}
+		}
+		return trouble(e, c, format, args...)
 	}
 	if len(files) != 2 {
 		return trouble(e, c, "want two files, WANT and GOT, got %d\n\n%s", len(files), c.usage)
@@ -129,12 +151,12 @@ func runDiff(e *env, c *command, args []string) int {
 	want, err := readTable(bar, files[0], readOpts...)
 	if err != nil {
 		bar.finish()
-		return trouble(e, c, "%v", err)
+		return fail("%v", err)
 	}
 	got, err := readTable(bar, files[1], readOpts...)
 	if err != nil {
 		bar.finish()
-		return trouble(e, c, "%v", err)
+		return fail("%v", err)
 	}
 	// An option naming a column neither file has is a mistake in the
 	// command line, not a difference between the files.
@@ -145,7 +167,7 @@ func runDiff(e *env, c *command, args []string) int {
 	for _, col := range named {
 		if col != assert.AllColumns && want.Column(col) == nil && got.Column(col) == nil {
 			bar.finish()
-			return trouble(e, c, "no column %q in either file%s (want: %s; got: %s)", col,
+			return fail("no column %q in either file%s (want: %s; got: %s)", col,
 				didYouMean(col, append(want.Names(), got.Names()...)), strings.Join(want.Names(), ", "), strings.Join(got.Names(), ", "))
 		}
 	}
@@ -160,7 +182,8 @@ func runDiff(e *env, c *command, args []string) int {
 	write := func(w io.Writer) error {
 		switch *format {
 		case "json":
-			if err := d.WriteJSON(w); err != nil {
+			vw := &versionWriter{w: w}
+			if err := d.WriteJSON(vw); err != nil {
 				return err
 			}
 			_, err := io.WriteString(w, "\n")
@@ -174,10 +197,37 @@ func runDiff(e *env, c *command, args []string) int {
 		return d.WriteText(w, assert.TextStyle{Color: *out == "" && useColor(e, e.stdout), Flags: true})
 	}
 	if err := writeResultWith(e, *out, write); err != nil {
+		return fail("%v", err)
+	}
+	tc := junitCase{name: files[1] + " against " + files[0], class: "proofsheet.diff", took: time.Since(start)}
+	if !d.Equal() {
+		tc.detail = d.TextWith(assert.TextStyle{})
+		tc.failure = tc.detail
+	}
+	suite.cases, suite.took = []junitCase{tc}, time.Since(start)
+	if err := suite.write(*junit); err != nil {
 		return trouble(e, c, "%v", err)
+	}
+	if e.getenv(stepSummaryVar) != "" {
+		if err := stepSummary(e, "## proofsheet diff: "+mdCodeSpan(files[1])+" against "+mdCodeSpan(files[0])+"\n\n"+d.Markdown()); err != nil {
+			return trouble(e, c, "%v", err)
+		}
 	}
 	if d.Equal() {
 		return exitSame
 	}
 	return exitDiffers
+}
+
+// mdCodeSpan writes s as a Markdown code span.
+func mdCodeSpan(s string) string {
+	s = strings.NewReplacer("\n", " ", "\r", " ").Replace(s)
+	tick := "`"
+	for strings.Contains(s, tick) {
+		tick += "`"
+	}
+	if strings.HasPrefix(s, "`") || strings.HasSuffix(s, "`") {
+		s = " " + s + " "
+	}
+	return tick + s + tick
 }

@@ -60,7 +60,9 @@ func TestDiffExitStatusAndFormats(t *testing.T) {
 	require.NoError(t, err)
 	js, err := assert.Compare(wt, gt, assert.ByKey("house", "day")).JSON()
 	require.NoError(t, err)
-	require.Equal(t, string(js)+"\n", r.stdout)
+	js, err = versioned(js) // with "schema_version" first
+	require.NoError(t, err)
+	require.Equal(t, string(js), r.stdout)
 
 	r = runBin(t, "", nil, "diff", "--key", "house,day", "--format", "markdown", want, got)
 	require.Equal(t, exitDiffers, r.code)

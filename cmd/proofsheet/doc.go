@@ -6,7 +6,7 @@
 //
 //	proofsheet profile FILE... [--json]
 //	proofsheet diff [--key COLS] [--tol SPEC]... [--format F] WANT GOT
-//	proofsheet review [--base REV | --records DIR] [--format F] [PATH...]
+//	proofsheet changes [--base REV | --records DIR] [--format F] [PATH...]
 //	proofsheet gen --schema FILE [--rows N] [--seed N] [--mess LEVEL] [--out FILE]
 //	proofsheet demo [--html FILE]
 //	proofsheet help [COMMAND]
@@ -19,5 +19,5 @@
 //
 //	python daily_report.py raw/ > out/daily.csv
 //	proofsheet diff --key house,day --tol '*=abs:1e-9' testdata/daily.csv out/daily.csv
-//	proofsheet review --base origin/main --format markdown --out review.md
+//	proofsheet changes --base origin/main --format markdown --out changes.md
 package main

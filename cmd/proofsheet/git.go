@@ -62,13 +62,13 @@ func (e *gitError) Error() string {
 // openRepo finds the work tree around dir.
 func openRepo(dir string) (*gitRepo, error) {
 	if _, err := exec.LookPath("git"); err != nil {
-		return nil, fmt.Errorf("%w: review compares golden files with a git revision; install git, or read run records with --records DIR", errNoGit)
+		return nil, fmt.Errorf("%w: changes compares golden files with a git revision; install git, or read run records with --records DIR", errNoGit)
 	}
 	out, err := git(dir, "rev-parse", "--show-toplevel")
 	if err != nil {
 		var ge *gitError
 		if errors.As(err, &ge) && strings.Contains(ge.msg, "not a git repository") {
-			return nil, fmt.Errorf("%s: %w (nor is any parent directory): review compares golden files with a git revision; run it in a work tree, or read run records with --records DIR", dir, errNotRepo)
+			return nil, fmt.Errorf("%s: %w (nor is any parent directory): changes compares golden files with a git revision; run it in a work tree, or read run records with --records DIR", dir, errNotRepo)
 		}
 		return nil, err
 	}

@@ -79,6 +79,10 @@ func run(e *env, args []string) int {
 		return exitSame
 	}
 	c, ok := cmds[name]
+	if !ok && name == "review" {
+		fmt.Fprintf(e.stderr, "proofsheet: the review command is now called changes, with the same options: proofsheet changes --help\n")
+		return exitTrouble
+	}
 	if !ok {
 		fmt.Fprintf(e.stderr, "proofsheet: unknown command %q\n\n", name)
 		usage(e.stderr, cmds)
@@ -88,7 +92,7 @@ func run(e *env, args []string) int {
 }
 
 func usage(w io.Writer, cmds map[string]*command) {
-	fmt.Fprint(w, "proofsheet tests data transformations: compare tables, review golden files,\nprofile raw files, generate messy ones.\n\nUsage: proofsheet COMMAND [options] [arguments]\n\nCommands:\n")
+	fmt.Fprint(w, "proofsheet tests data transformations: compare tables, keep golden files,\nprofile raw files, generate messy ones.\n\nUsage: proofsheet COMMAND [options] [arguments]\n\nCommands:\n")
 	names := make([]string, 0, len(cmds))
 	for n := range cmds {
 		names = append(names, n)

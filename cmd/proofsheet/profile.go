@@ -99,8 +99,10 @@ func runProfile(e *env, c *command, args []string) int {
 		if len(reports) == 1 {
 			out, err = reports[0].JSON()
 		} else {
-			out, err = json.MarshalIndent(reports, "", "  ")
-			out = append(out, '\n')
+			out, err = json.Marshal(reports)
+		}
+		if err == nil {
+			out, err = versioned(out)
 		}
 		if err != nil {
 			return trouble(e, c, "%v", err)

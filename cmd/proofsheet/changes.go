@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os"
+	"time"
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/golden"
@@ -10,14 +11,15 @@ import (
 
 // stepSummaryVar is the environment variable by which CI services name a
 // file that collects Markdown for the job's summary page, a common CI
-// convention; review appends its Markdown there when it is set.
+// convention; diff, hammer, golden and changes append their Markdown
+// there when it is set.
 const stepSummaryVar = "GITHUB_STEP_SUMMARY"
 
-func reviewCommand() *command {
+func changesCommand() *command {
 	c := &command{
-		name:    "review",
+		name:    "changes",
 		summary: "summarise the golden files changed since a git revision",
-		usage: `Usage: proofsheet review [options] [PATH...]
+		usage: `Usage: proofsheet changes [options] [PATH...]
 
 Finds the golden files (*.gold.tbl, *.gold.txt, *.gold.json) that differ
 between a git revision and the working tree — new untracked files too —
@@ -26,8 +28,12 @@ one), compares the old and new version of each by its kind, and writes one
 summary: a headline count, then per file its status (new, removed,
 changed, unchanged within tolerance), row counts, schema and key changes,
 the first changed cells with their keys and the largest deltas per column.
-Tables are compared as golden.Table compares them (rows matched by the
-file's key columns); text files line by line; JSON files by path.
+Tables are compared under the rules the new version stores in its header
+(keys, tolerances, ignored columns, row matching; the old version's when
+the new one stores none), with --tol and --ignore on top; a change of the
+stored rules counts as a change, since a wider tolerance can hide one.
+Text files are compared line by line, JSON files by path. The two sides
+are labelled before (the revision) and after (the working tree).
 
 With --records DIR it summarises the run records a test run wrote
 (PROOFSHEET_RECORDS=DIR go test ./...) instead of asking git.
@@ -39,33 +45,37 @@ Options:
                      json, or html (one self-contained page with a
                      "changed only" filter)
   --out FILE         write the summary to FILE instead of stdout; FILE is
-                     written only when the review could be made
+                     written only when the summary could be made
 ` + tolHelp + `
   --ignore COLS      leave these comma-separated table columns out
                      (--tol and --ignore apply to the tables that have the
                      column they name)
   --max-cells N      list at most N changed cells per table (default 10;
                      -1 lists all)
+  --junit FILE       also write a JUnit XML report to FILE: one test case
+                     per golden file listed, failed when it is new,
+                     removed or changed, with its diff
   --quiet            draw no progress bar
 
 When ` + stepSummaryVar + ` names a file (CI job summaries), the
-Markdown summary is appended to it as well, whatever --format says.
+Markdown summary is appended to it as well, whatever --format says. The
+JSON has a "schema_version" field.
 
 Example:
-  proofsheet review --base origin/main --format html --out review.html
+  proofsheet changes --base origin/main --format html --out changes.html
   PROOFSHEET_RECORDS=out/records go test ./...
-  proofsheet review --records out/records --format text
+  proofsheet changes --records out/records --format text
 
 Exit status: 0 when no golden file changed (unchanged within tolerance
 counts as no change), 1 when some file is new, removed or changed, 2 on
 trouble (not a git repository, an unknown revision, a bad option).
 `,
 	}
-	c.run = func(e *env, args []string) int { return runReview(e, c, args) }
+	c.run = func(e *env, args []string) int { return runChanges(e, c, args) }
 	return c
 }
 
-func runReview(e *env, c *command, args []string) int {
+func runChanges(e *env, c *command, args []string) int {
 	fs := newFlags(c)
 	base := fs.String("base", "HEAD", "")
 	recordsDir := fs.String("records", "", "")
@@ -75,10 +85,15 @@ func runReview(e *env, c *command, args []string) int {
 	fs.Var(&tols, "tol", "")
 	ignore := fs.String("ignore", "", "")
 	maxCells := fs.Int("max-cells", 10, "")
+	junit := fs.String("junit", "", "")
 	quiet := fs.Bool("quiet", false, "")
 	paths, status, ok := parseFlags(e, c, fs, args)
 	if !ok {
 		return status
+	}
+	start := time.Now()
+	if err := checkJUnit(*junit); err != nil {
+		return trouble(e, c, "%v", err)
 	}
 	if !reportFormats[*format] {
 		return trouble(e, c, "--format %q: unknown format (want markdown, text, json or html)", *format)
@@ -131,7 +146,7 @@ func runReview(e *env, c *command, args []string) int {
 		rv = golden.ReviewRecords(recs)
 		rv.Against = "the run records in " + *recordsDir
 	} else {
-		rv, err = reviewGit(*base, paths, optsFor, newProgress(e, *quiet))
+		rv, err = changesGit(*base, paths, optsFor, newProgress(e, *quiet))
 		if err != nil {
 			return trouble(e, c, "%v", err)
 		}
@@ -140,7 +155,10 @@ func runReview(e *env, c *command, args []string) int {
 	var report []byte
 	switch *format {
 	case "json":
-		if report, err = rv.JSON(); err != nil {
+		if report, err = rv.JSON(); err == nil {
+			report, err = versioned(report)
+		}
+		if err != nil {
 			return trouble(e, c, "%v", err)
 		}
 	case "html":
@@ -153,10 +171,11 @@ func runReview(e *env, c *command, args []string) int {
 	if err := writeResult(e, *out, report); err != nil {
 		return trouble(e, c, "%v", err)
 	}
-	if path := e.getenv(stepSummaryVar); path != "" {
-		if err := appendFile(path, []byte(rv.Markdown()+"\n")); err != nil {
-			return trouble(e, c, "%s=%s: %v", stepSummaryVar, path, err)
-		}
+	if err := changesJUnit(rv, time.Since(start)).write(*junit); err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	if err := stepSummary(e, rv.Markdown()); err != nil {
+		return trouble(e, c, "%v", err)
 	}
 	if rv.Changed() {
 		return exitDiffers
@@ -164,9 +183,24 @@ func runReview(e *env, c *command, args []string) int {
 	return exitSame
 }
 
-// reviewGit reviews the golden files that differ between base and the
+// changesJUnit is the JUnit report of a summary: one case per file
+// listed, failed unless it is unchanged within tolerance.
+func changesJUnit(rv *golden.Review, took time.Duration) *junitSuite {
+	s := &junitSuite{name: "proofsheet changes", took: took}
+	for _, f := range rv.Files {
+		tc := junitCase{name: f.Path, class: "proofsheet.changes." + string(f.Kind)}
+		if f.Status != golden.ReviewUnchanged {
+			tc.failure = f.Status.Label() + ": " + f.Summary()
+			tc.detail = (&golden.Review{Title: f.Path, Against: rv.Against, Files: []golden.FileReview{f}}).Text()
+		}
+		s.cases = append(s.cases, tc)
+	}
+	return s
+}
+
+// changesGit summarises the golden files that differ between base and the
 // work tree around the working directory.
-func reviewGit(base string, paths []string, optsFor golden.OptionsFor, bar *progress) (*golden.Review, error) {
+func changesGit(base string, paths []string, optsFor golden.OptionsFor, bar *progress) (*golden.Review, error) {
 	wd, err := os.Getwd()
 	if err != nil {
 		return nil, err
@@ -192,7 +226,7 @@ func reviewGit(base string, paths []string, optsFor golden.OptionsFor, bar *prog
 	}
 	rv := &golden.Review{Against: base + " (" + repo.shortCommit(commit) + ")"}
 	if len(changes) >= 20 {
-		bar.startCount("reviewing golden files", int64(len(changes)))
+		bar.startCount("comparing golden files", int64(len(changes)))
 	}
 	for _, ch := range changes {
 		fc := golden.FileChange{Path: ch.path, OldExists: ch.old, NewExists: ch.cur}

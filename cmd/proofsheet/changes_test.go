@@ -58,10 +58,10 @@ Mas | 2026-04-01 | 17 | 139
 Étang | 2026-04-01 | 21.5 | 140
 `
 
-// noEnv clears the variables that would change a review run.
+// noEnv clears the variables that would change a run of changes.
 var noEnv = []string{stepSummaryVar + "="}
 
-func TestReviewAgainstGit(t *testing.T) {
+func TestChangesAgainstGit(t *testing.T) {
 	repo := newRepo(t, map[string]string{
 		"report/testdata/daily/house.gold.tbl": goldenDaily,
 		"report/testdata/daily/noise.gold.tbl": goldenDaily,
@@ -83,7 +83,7 @@ func TestReviewAgainstGit(t *testing.T) {
 	})
 	require.NoError(t, os.Remove(filepath.Join(repo, "report/testdata/gone.gold.txt")))
 
-	r := runBin(t, repo, noEnv, "review", "--format", "json", "--tol", "*=rel:1e-12")
+	r := runBin(t, repo, noEnv, "changes", "--format", "json", "--tol", "*=rel:1e-12")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	var out struct {
 		Against string         `json:"against"`
@@ -123,7 +123,7 @@ func TestReviewAgainstGit(t *testing.T) {
 	require.Equal(t, []string{"Étang", "2026-04-01"}, house.Diff.Cells[0].Row.Key)
 
 	// Markdown, the default, for a pull request.
-	r = runBin(t, repo, noEnv, "review", "--tol", "*=rel:1e-12")
+	r = runBin(t, repo, noEnv, "changes", "--tol", "*=rel:1e-12")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.True(t, strings.HasPrefix(r.stdout, "## Golden file review\n\n**5 golden files differ: 3 changed, 1 new, 1 removed; 1 unchanged within tolerance** — against `HEAD ("), r.stdout)
 	require.Contains(t, r.stdout, "| `report/testdata/daily/house.gold.tbl` | **changed** | table | 3 | 2 differing cells in 1 row; largest Δabs 1 (kept) |")
@@ -131,70 +131,70 @@ func TestReviewAgainstGit(t *testing.T) {
 	require.Contains(t, r.stdout, "$.gdd[\"Étang\"]: before 120.5, after 121")
 
 	// Without the tolerance the float noise is a change.
-	r = runBin(t, repo, noEnv, "review", "--format", "text")
+	r = runBin(t, repo, noEnv, "changes", "--format", "text")
 	require.Equal(t, exitDiffers, r.code)
 	require.Regexp(t, `(?m)^  changed +table +3  report/testdata/daily/noise.gold.tbl$`, r.stdout)
 
 	// The HTML page: one marked cell per listed differing cell.
-	r = runBin(t, repo, noEnv, "review", "--format", "html", "--tol", "*=rel:1e-12")
+	r = runBin(t, repo, noEnv, "changes", "--format", "html", "--tol", "*=rel:1e-12")
 	require.Equal(t, exitDiffers, r.code)
 	require.True(t, strings.HasPrefix(r.stdout, "<!DOCTYPE html>"))
 	require.Equal(t, 2, strings.Count(r.stdout, `class="`+assert.HTMLChangedCell+`"`))
 	require.Equal(t, 6, strings.Count(r.stdout, `<section class="ps-file"`))
 
-	// PATH arguments narrow the review; any golden file under them counts.
-	r = runBin(t, repo, noEnv, "review", "--format", "json", "elsewhere")
+	// PATH arguments narrow the summary; any golden file under them counts.
+	r = runBin(t, repo, noEnv, "changes", "--format", "json", "elsewhere")
 	require.Equal(t, exitDiffers, r.code, r.stderr+r.stdout)
 	require.Contains(t, r.stdout, `"path": "elsewhere/other.gold.txt"`)
 	require.NotContains(t, r.stdout, "report/testdata")
 
 	// From a subdirectory the default is the testdata below it.
-	r = runBin(t, filepath.Join(repo, "report", "testdata", "daily"), noEnv, "review", "--format", "json")
+	r = runBin(t, filepath.Join(repo, "report", "testdata", "daily"), noEnv, "changes", "--format", "json")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.Contains(t, r.stdout, `"path": "report/testdata/daily/house.gold.tbl"`)
 	require.NotContains(t, r.stdout, "summary.gold.txt")
 }
 
-func TestReviewNothingChanged(t *testing.T) {
+func TestChangesNothingChanged(t *testing.T) {
 	repo := newRepo(t, map[string]string{"pkg/testdata/a.gold.txt": "a\n", "pkg/testdata/t.gold.tbl": goldenDaily})
-	r := runBin(t, repo, noEnv, "review")
+	r := runBin(t, repo, noEnv, "changes")
 	require.Equal(t, exitSame, r.code, r.stderr)
 	require.Contains(t, r.stdout, "**No golden file differs**")
 
 	// Only tolerated noise: still exit 0. A rule for a column this table
 	// lacks (gdd) does not get in the way.
 	writeTree(t, repo, map[string]string{"pkg/testdata/t.gold.tbl": strings.Replace(goldenDaily, "| 17 |", "| 17.000000000000004 |", 1)})
-	r = runBin(t, repo, noEnv, "review", "--tol", "tmax=ulp:2", "--tol", "gdd=abs:0.1", "--ignore", "note")
+	r = runBin(t, repo, noEnv, "changes", "--tol", "tmax=ulp:2", "--tol", "gdd=abs:0.1", "--ignore", "note")
 	require.Equal(t, exitSame, r.code, r.stdout)
 	require.Contains(t, r.stdout, "1 unchanged within tolerance")
-	r = runBin(t, repo, noEnv, "review")
+	r = runBin(t, repo, noEnv, "changes")
 	require.Equal(t, exitDiffers, r.code)
 }
 
-func TestReviewBase(t *testing.T) {
+func TestChangesBase(t *testing.T) {
 	repo := newRepo(t, map[string]string{"pkg/testdata/a.gold.txt": "one\n"})
 	first := strings.TrimSpace(gitT(t, repo, "rev-parse", "HEAD"))
 	writeTree(t, repo, map[string]string{"pkg/testdata/a.gold.txt": "two\n"})
 	gitT(t, repo, "commit", "-q", "-am", "two")
 	// Against HEAD the work tree is clean; against the first commit the
 	// committed change shows.
-	r := runBin(t, repo, noEnv, "review")
+	r := runBin(t, repo, noEnv, "changes")
 	require.Equal(t, exitSame, r.code, r.stderr)
-	r = runBin(t, repo, noEnv, "review", "--base", first, "--format", "text")
+	r = runBin(t, repo, noEnv, "changes", "--base", first, "--format", "text")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.Contains(t, r.stdout, "against "+first)
 	require.Contains(t, r.stdout, "-  one")
 	require.Contains(t, r.stdout, "+  two")
-	r = runBin(t, repo, noEnv, "review", "--base", "HEAD~1")
+	r = runBin(t, repo, noEnv, "changes", "--base", "HEAD~1")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 }
 
-func TestReviewStepSummary(t *testing.T) {
+func TestChangesStepSummary(t *testing.T) {
 	repo := newRepo(t, map[string]string{"pkg/testdata/a.gold.txt": "one\n"})
 	writeTree(t, repo, map[string]string{"pkg/testdata/a.gold.txt": "two\n"})
 	summary := filepath.Join(t.TempDir(), "summary.md")
 	require.NoError(t, os.WriteFile(summary, []byte("earlier step\n"), 0o644))
-	r := runBin(t, repo, []string{stepSummaryVar + "=" + summary}, "review", "--format", "json")
+	r := runBin(t, repo, []string{stepSummaryVar + "=" + summary}, "changes", "--format", "json")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.True(t, strings.HasPrefix(r.stdout, "{"), "stdout keeps the asked format")
 	data, err := os.ReadFile(summary)
@@ -202,7 +202,7 @@ func TestReviewStepSummary(t *testing.T) {
 	require.True(t, strings.HasPrefix(string(data), "earlier step\n## Golden file review\n"), "appended, as Markdown: %s", data)
 }
 
-func TestReviewRecords(t *testing.T) {
+func TestChangesRecords(t *testing.T) {
 	dir := t.TempDir()
 	recs := []golden.Record{
 		{Test: "TestDaily", Name: "daily", Kind: golden.KindTable, Status: golden.StatusEqual, Path: "pkg/testdata/daily.gold.tbl"},
@@ -215,7 +215,7 @@ func TestReviewRecords(t *testing.T) {
 		lines = append(lines, string(b))
 	}
 	require.NoError(t, os.WriteFile(filepath.Join(dir, "records-1.jsonl"), []byte(strings.Join(lines, "\n")+"\n"), 0o644))
-	r := runBin(t, "", noEnv, "review", "--records", dir, "--format", "text")
+	r := runBin(t, "", noEnv, "changes", "--records", dir, "--format", "text")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.Contains(t, r.stdout, "against the run records in "+dir)
 	require.Contains(t, r.stdout, "1 golden file differs: 1 changed; 1 equal")
@@ -223,11 +223,11 @@ func TestReviewRecords(t *testing.T) {
 
 	only := t.TempDir()
 	require.NoError(t, os.WriteFile(filepath.Join(only, "records-2.jsonl"), []byte(lines[0]+"\n"), 0o644))
-	r = runBin(t, "", noEnv, "review", "--records", only)
+	r = runBin(t, "", noEnv, "changes", "--records", only)
 	require.Equal(t, exitSame, r.code, r.stderr)
 }
 
-func TestReviewBadInput(t *testing.T) {
+func TestChangesBadInput(t *testing.T) {
 	repo := newRepo(t, map[string]string{"pkg/testdata/a.gold.txt": "one\n"})
 	writeTree(t, repo, map[string]string{"pkg/testdata/a.gold.txt": "two\n"})
 	notRepo := t.TempDir()
@@ -256,7 +256,7 @@ func TestReviewBadInput(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			require.NoError(t, os.WriteFile(keep, []byte("earlier\n"), 0o644))
-			r := runBin(t, c.dir, noEnv, append([]string{"review", "--out", keep}, c.args...)...)
+			r := runBin(t, c.dir, noEnv, append([]string{"changes", "--out", keep}, c.args...)...)
 			require.Equal(t, exitTrouble, r.code, "stdout: %s\nstderr: %s", r.stdout, r.stderr)
 			require.Contains(t, r.stderr, c.msg)
 			require.NotContains(t, r.stderr, "panic")
