@@ -156,8 +156,14 @@ func (m mode) refusal() error {
 	if !m.byFlag {
 		how = EnvUpdate
 	}
+	return refusedError(how, m.ci)
+}
+
+// refusedError explains why an update asked for by how is refused while
+// CI holds ci.
+func refusedError(how, ci string) error {
 	return fmt.Errorf("%w: %s was given but %s=%s is set; rewriting golden files in CI would hide changes from review. "+
-		"Update them on your machine and commit them, or set %s=1 to force it", ErrUpdateRefused, how, EnvCI, m.ci, EnvUpdateInCI)
+		"Update them on your machine and commit them, or set %s=1 to force it", ErrUpdateRefused, how, EnvCI, ci, EnvUpdateInCI)
 }
 
 // Updating reports whether this run rewrites golden files: -update or

@@ -273,7 +273,7 @@ func reviewTable(f *FileReview, c FileChange, optsFor OptionsFor) {
 	if oldInfo.HasRules && newInfo.HasRules {
 		// A version 1 file stores only how its rows are sorted, so there is
 		// no change of rules to speak of before both versions store them.
-		f.RulesChange = rulesChange(oldInfo.Rules, newInfo.Rules, "before", "after", "stored rules changed")
+		f.RulesChange = rulesChange(oldInfo.Rules, newInfo.Rules, "stored rules changed")
 	}
 	names := old.Names()
 	for _, n := range cur.Names() {

@@ -349,11 +349,11 @@ func TestReviewUnderStoredRules(t *testing.T) {
 	wide := []assert.Option{assert.ByKey("house", "day"), assert.Tol("tmax", 0.5, 0)}
 	f = ReviewChange(change("d/daily.gold.tbl", enc(tb, tight...), enc(noisy, wide...)))
 	require.Equal(t, ReviewChanged, f.Status)
-	require.Equal(t, "stored rules changed: only before: tmax=abs:1e-09 — only after: tmax=abs:0.5", f.RulesChange)
+	require.Equal(t, "stored rules changed: tmax=abs:1e-09 → tmax=abs:0.5", f.RulesChange)
 	require.Equal(t, "stored rules changed; largest Δabs 3.55e-15 (tmax)", f.Summary())
 	rv := &Review{Files: []FileReview{f}}
 	md := rv.Markdown()
-	require.Contains(t, md, "Stored rules changed: only before: tmax=abs:1e-09 — only after: tmax=abs:0.5.")
+	require.Contains(t, md, "Stored rules changed: tmax=abs:1e-09 → tmax=abs:0.5.")
 	require.Contains(t, md, "Compared under: rows by key house, day; tmax=abs:0.5.")
 	require.Contains(t, rv.Text(), "compared under: rows by key house, day; tmax=abs:0.5")
 	js, err := rv.JSON()

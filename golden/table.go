@@ -28,9 +28,9 @@ func Table(t T, name string, got *fixtures.Table, opts ...assert.Option) bool {
 // The file stores the comparison rules it was written with (keys,
 // tolerances, ignored columns, row matching; see assert.Rules). Called
 // with no rules in opts (ListLimit is not a rule), the check compares
-// under the stored rules. Rules in opts that differ from the stored ones
-// are used, and the check says so in its log (and in its failure); an
-// update then stores them.
+// under the stored rules. Rules in opts go on top of the stored ones, rule
+// by rule (see MergeRules): when that changes the rules, the check says so
+// in its log (and in its failure), and an update stores the new rules.
 //
 // In update mode (-update or PROOFSHEET_UPDATE=1; refused under CI) a
 // missing or differing file is written from got and the check passes. A
@@ -79,53 +79,74 @@ func (s Store) Table(t T, name string, got *fixtures.Table, opts ...assert.Optio
 }
 
 // chooseRules decides the rules a check of a stored table compares under:
-// the given ones when there are any, else those the file stores (for a
-// version 1 file, its keys). note says so when the given rules differ from
-// the stored ones, and rewrite that an update should store them even if
-// the tables are equal.
+// those the file stores (for a version 1 file, its keys), with each rule
+// given on top (see MergeRules). note says so when that differs from the
+// stored rules, and rewrite that an update should store them even if the
+// tables are equal.
 func chooseRules(info SheetInfo, given assert.Rules) (used assert.Rules, note string, rewrite bool) {
-	if given.IsZero() || given.Equal(info.Rules) {
-		return info.Rules, "", false
+	used = MergeRules(info.Rules, given)
+	if used.Equal(info.Rules) {
+		return used, "", false
 	}
 	if !info.HasRules {
-		return given, fmt.Sprintf("the file stores no rules (format v%d); compared under the given rules (%s); an update stores them", info.Version, given), true
+		return used, fmt.Sprintf("the file stores no rules (format v%d); compared under %s; an update stores them", info.Version, used), true
 	}
-	return given, RulesChange(info.Rules, given) + "; compared under the given rules; an update stores them", true
+	return used, RulesChange(info.Rules, used) + "; compared under the new rules; an update stores them", true
 }
 
-// RulesChange describes how two sets of rules differ, for a person:
-// "rules differ from the stored ones: only stored: tmax=abs:0.01; only
-// given: tmax=abs:0.1". It returns "" when they are equal.
-func RulesChange(stored, given assert.Rules) string {
-	return rulesChange(stored, given, "stored", "given", "rules differ from the stored ones")
+// MergeRules returns the stored rules with the given ones on top, rule by
+// rule: given keys or row order replace the stored row matching (given
+// rules that match by position leave it as stored); a given tolerance
+// replaces the stored one of its column (a time tolerance the stored time
+// tolerance), and so does a text rule; ignored columns and switches add
+// up. A stored rule is dropped only by giving another in its place (an
+// exact Tol(col, 0, 0), say) or by rewriting the file.
+func MergeRules(stored, given assert.Rules) assert.Rules {
+	out := stored
+	if given.Match == assert.MatchByKey || given.Match == assert.MatchAsMultiset {
+		out.Match, out.Keys = given.Match, slices.Clone(given.Keys)
+	}
+	isTime := func(t assert.Tolerance) bool { return t.Kind == assert.TolTime }
+	out.Tolerances = slices.DeleteFunc(slices.Clone(stored.Tolerances), func(s assert.Tolerance) bool {
+		return slices.ContainsFunc(given.Tolerances, func(g assert.Tolerance) bool { return g.Column == s.Column && isTime(g) == isTime(s) })
+	})
+	out.Tolerances = append(out.Tolerances, given.Tolerances...)
+	out.Text = slices.DeleteFunc(slices.Clone(stored.Text), func(s assert.TextRule) bool {
+		return slices.ContainsFunc(given.Text, func(g assert.TextRule) bool { return g.Column == s.Column })
+	})
+	out.Text = append(out.Text, given.Text...)
+	out.Ignore = append(slices.Clone(stored.Ignore), given.Ignore...)
+	out.AnyColumnOrder = stored.AnyColumnOrder || given.AnyColumnOrder
+	out.LooseTypes = stored.LooseTypes || given.LooseTypes
+	out.NaNIsNull = stored.NaNIsNull || given.NaNIsNull
+	// The canonical order and no repeats, as RulesOf gives them.
+	return assert.RulesOf(out.Options()...)
 }
 
-func rulesChange(a, b assert.Rules, aName, bName, head string) string {
+// RulesChange describes how the rules used differ from the stored ones,
+// for a person: "rules differ from the stored ones: *=abs:1e-09 →
+// *=abs:0.5" (the parts only stored, an arrow, the parts only used; "-"
+// for none). It returns "" when they are equal.
+func RulesChange(stored, used assert.Rules) string {
+	return rulesChange(stored, used, "rules differ from the stored ones")
+}
+
+func rulesChange(a, b assert.Rules, head string) string {
 	if a.Equal(b) {
 		return ""
 	}
 	pa, pb := a.Parts(), b.Parts()
-	var onlyA, onlyB []string
-	for _, p := range pa {
-		if !slices.Contains(pb, p) {
-			onlyA = append(onlyA, p)
+	only := func(xs, ys []string) string {
+		var out []string
+		for _, x := range xs {
+			if !slices.Contains(ys, x) {
+				out = append(out, x)
+			}
 		}
-	}
-	for _, p := range pb {
-		if !slices.Contains(pa, p) {
-			onlyB = append(onlyB, p)
+		if len(out) == 0 {
+			return "-"
 		}
+		return strings.Join(out, "; ")
 	}
-	s := head
-	if len(onlyA) > 0 {
-		s += ": only " + aName + ": " + strings.Join(onlyA, "; ")
-	}
-	if len(onlyB) > 0 {
-		sep := ": "
-		if len(onlyA) > 0 {
-			sep = " — "
-		}
-		s += sep + "only " + bName + ": " + strings.Join(onlyB, "; ")
-	}
-	return s
+	return head + ": " + only(pa, pb) + " → " + only(pb, pa)
 }

@@ -87,13 +87,19 @@ func TestTableCheckLifecycle(t *testing.T) {
 	require.True(t, ok, ft.failures())
 	require.Empty(t, ft.logs)
 
-	// Rules that differ from the stored ones are used and reported: with
-	// no tolerance the noise is a difference.
+	// Given rules go on top of the stored ones, rule by rule: the same key
+	// changes nothing.
 	ok, ft = check("noise", assert.ByKey("house", "day"))
+	require.True(t, ok, ft.failures())
+	require.Empty(t, ft.logs)
+
+	// A rule that differs from the stored one is used and reported: with
+	// an exact rule the noise is a difference.
+	ok, ft = check("noise", assert.Tol("*", 0, 0))
 	require.False(t, ok)
 	require.Contains(t, ft.failures(), "tmean")
-	require.Contains(t, ft.failures(), "Note: rules differ from the stored ones: only stored: *=abs:1e-09; compared under the given rules")
-	require.Equal(t, []string{"golden: " + displayPath(path) + ": rules differ from the stored ones: only stored: *=abs:1e-09; compared under the given rules; an update stores them"}, ft.logs)
+	require.Contains(t, ft.failures(), "Note: rules differ from the stored ones: *=abs:1e-09 → *=abs:0; compared under the new rules; an update stores them.")
+	require.Equal(t, []string{"golden: " + displayPath(path) + ": rules differ from the stored ones: *=abs:1e-09 → *=abs:0; compared under the new rules; an update stores them"}, ft.logs)
 
 	ok, ft = check("change", dailyOpts...)
 	require.False(t, ok)
@@ -262,7 +268,7 @@ func TestTableStoredRules(t *testing.T) {
 	ok, ft = check("noise", dailyOpts...)
 	require.True(t, ok, ft.failures())
 	require.Len(t, ft.logs, 1)
-	require.Contains(t, ft.logs[0], "the file stores no rules (format v1); compared under the given rules (rows by key house, day; *=abs:1e-09); an update stores them")
+	require.Contains(t, ft.logs[0], "the file stores no rules (format v1); compared under rows by key house, day; *=abs:1e-09; an update stores them")
 	require.Equal(t, v1, readFile(t, path), "checking never writes")
 
 	// An update stores them, even though the table is equal under them.
@@ -286,7 +292,7 @@ func TestTableStoredRules(t *testing.T) {
 	wide := []assert.Option{assert.ByKey("house", "day"), assert.Tol("*", 2, 0)}
 	ok, ft = check("change", wide...)
 	require.True(t, ok, ft.failures())
-	require.Equal(t, "golden: "+displayPath(path)+": rules differ from the stored ones: only stored: *=abs:1e-09 — only given: *=abs:2; compared under the given rules; an update stores them", ft.logs[0])
+	require.Equal(t, "golden: "+displayPath(path)+": rules differ from the stored ones: *=abs:1e-09 → *=abs:2; compared under the new rules; an update stores them", ft.logs[0])
 	*updateFlag = true
 	ok, ft = check("change", wide...)
 	*updateFlag = false
@@ -305,4 +311,24 @@ func TestTableStoredRules(t *testing.T) {
 	require.NoError(t, err)
 	require.True(t, info.HasRules)
 	require.True(t, assert.RulesOf(all...).Equal(info.Rules), "%v", info.Rules)
+}
+
+func TestMergeRules(t *testing.T) {
+	stored := assert.RulesOf(assert.ByKey("house", "day"), assert.Tol("*", 1e-9, 0), assert.Tol("tmax", 0.01, 0), assert.IgnoreColumns("note"), assert.NormText("house", assert.NFC))
+	cases := []struct {
+		name  string
+		given []assert.Option
+		want  string
+	}{
+		{"nothing given", nil, "rows by key house, day; *=abs:1e-09; tmax=abs:0.01; ignore note; text house=nfc"},
+		{"a tolerance replaces its column's", []assert.Option{assert.Tol("tmax", 0.5, 0)}, "rows by key house, day; *=abs:1e-09; tmax=abs:0.5; ignore note; text house=nfc"},
+		{"a time tolerance sits beside a float one", []assert.Option{assert.TimeTol("tmax", time.Second)}, "rows by key house, day; *=abs:1e-09; tmax=abs:0.01; tmax=time:1s; ignore note; text house=nfc"},
+		{"row order and ignores", []assert.Option{assert.AnyRowOrder(), assert.IgnoreColumns("kept"), assert.LooseTypes()}, "rows in any order; *=abs:1e-09; tmax=abs:0.01; ignore kept, note; text house=nfc; loose types"},
+		{"other keys", []assert.Option{assert.ByKey("house"), assert.NormText("house", assert.TrimSpace)}, "rows by key house; *=abs:1e-09; tmax=abs:0.01; ignore note; text house=trim"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			require.Equal(t, c.want, MergeRules(stored, assert.RulesOf(c.given...)).String())
+		})
+	}
 }

@@ -180,7 +180,7 @@ func TestChangesUnderStoredRules(t *testing.T) {
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	// No --tol: the stored tolerance applies, so noise is no change.
 	require.Contains(t, r.stdout, "1 golden file differs: 1 changed; 1 unchanged within tolerance")
-	require.Contains(t, r.stdout, "stored rules changed: only before: tmax=abs:1e-09 — only after: tmax=abs:0.5")
+	require.Contains(t, r.stdout, "stored rules changed: tmax=abs:1e-09 → tmax=abs:0.5")
 	require.Contains(t, r.stdout, "compared under: rows by key house, day; tmax=abs:0.5")
 	doc := readJUnit(t, junit)
 	require.Equal(t, 2, doc.Tests)
