@@ -1,6 +1,7 @@
 package property
 
 import (
+	"iter"
 	"slices"
 	"strings"
 
@@ -358,6 +359,24 @@ func FileShrinker(v any) gopter.Shrink {
 			return nil, false
 		}
 		return f, true
+	}
+}
+
+// Smaller returns the candidates smaller than f in the order ShrinkFile
+// tries them (FileShrinker's order), lazily: rows dropped, the CSV style
+// made plain, columns dropped, header names and cells spelled plainly,
+// values made simpler. A tool that runs its own search — running
+// candidates in parallel, say, and taking the first that fails in this
+// order — ranges over it; each candidate is a *File whose Data are the
+// bytes to feed.
+func (f *File) Smaller() iter.Seq[*File] {
+	return func(yield func(*File) bool) {
+		next := fileStream(f)
+		for c, ok := next(); ok; c, ok = next() {
+			if !yield(c) {
+				return
+			}
+		}
 	}
 }
 

@@ -218,3 +218,20 @@ func TestPasteReadyParsesBack(t *testing.T) {
 	simple := sampleOf([]string{"house", "temp_c"}, []Messy{text("Étang"), {Raw: "1,5", Clean: "1.5", Mess: MessDecimalComma}})
 	require.Equal(t, "raw := fixtures.MustParse(t, `\n\thouse:string | temp_c:string\n\tÉtang        | 1,5\n`)\n", PasteReady("", simple.Raw()))
 }
+
+func TestFileSmallerIsTheShrinkOrder(t *testing.T) {
+	f, err := GenerateFile(greenhouse, 6, 5, Options{Mess: Heavy}, CSVStyle{Delimiter: ';', Encoding: fixtures.EncodingWindows1252})
+	require.NoError(t, err)
+	next := fileStream(f)
+	n := 0
+	for c := range f.Smaller() {
+		want, ok := next()
+		require.True(t, ok)
+		require.Equal(t, want.Data, c.Data)
+		n++
+		if n == 50 {
+			break
+		}
+	}
+	require.Positive(t, n)
+}
