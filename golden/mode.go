@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"testing"
 )
 
 // The environment variables the package reads. Each is read at the moment
@@ -48,8 +49,12 @@ var otherFlag *flag.Flag
 // the test binary, before or after this package is initialised, must not
 // clash with it (the flag package panics on a second definition). Instead,
 // -update is taken out of the command line here, before flag.Parse sees
-// it.
+// it. Only in a test binary: a program that imports the package (the
+// proofsheet command has its own --update) keeps its arguments.
 func init() {
+	if !testing.Testing() {
+		return
+	}
 	if f := flag.Lookup(updateName); f != nil {
 		otherFlag = f // defined first by another package: it owns -update
 		return
