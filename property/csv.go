@@ -225,7 +225,7 @@ func (s *Sample) CSV(style CSVStyle) ([]byte, error) {
 			return header
 		}
 		return s.rows[i].cells
-	}, func(i, j int) string {
+	}, func(i int) (bool, int) { return s.rows[i].fileOnly, s.rows[i].cut }, func(i, j int) string {
 		if i < 0 {
 			return fmt.Sprintf("header of column %d", j+1)
 		}
@@ -233,8 +233,10 @@ func (s *Sample) CSV(style CSVStyle) ([]byte, error) {
 	})
 }
 
-// writeCSV writes a header (row -1) and n rows given by row.
-func writeCSV(st CSVStyle, seed int64, n int, row func(i int) []Messy, where func(i, j int) string) ([]byte, error) {
+// writeCSV writes a header (row -1) and n rows given by row. shape, when
+// not nil, tells rows written as an empty line and rows cut short after a
+// number of fields (the last such row of the file has no line ending).
+func writeCSV(st CSVStyle, seed int64, n int, row func(i int) []Messy, shape func(i int) (empty bool, cut int), where func(i, j int) string) ([]byte, error) {
 	r := newRng(seed ^ 0x5eed_c5f0)
 	fits := fitsFor(st.Encoding)
 	delim := byte(st.Delimiter)
@@ -248,28 +250,27 @@ func writeCSV(st CSVStyle, seed int64, n int, row func(i int) []Messy, where fun
 	}
 	sawLF, sawCRLF := false, false
 	for i := -1; i < n; i++ {
-		for j, c := range row(i) {
-			if fits != nil && !fits(c.Raw) {
-				return nil, fmt.Errorf("property: %s: %q cannot be written in %s", where(i, j), c.Raw, st.Encoding)
-			}
-			if j > 0 {
-				b = append(b, delim)
-			}
-			if c.IsNull() {
-				continue
-			}
-			if quoteField(st.Quoting, c.Raw, delim, r) {
-				b = append(b, '"')
-				for k := 0; k < len(c.Raw); k++ {
-					if c.Raw[k] == '"' {
-						b = append(b, '"') // RFC 4180 §2 rule 7
-					}
-					b = append(b, c.Raw[k])
+		cells := row(i)
+		empty, cut := false, 0
+		if shape != nil && i >= 0 {
+			empty, cut = shape(i)
+		}
+		if empty {
+			cells = nil
+		} else if cut > 0 {
+			cells = cells[:cut]
+			if i == n-1 {
+				// The file ends inside this line: no line ending.
+				var err error
+				if b, err = appendFields(b, st, cells, delim, fits, r, i, where); err != nil {
+					return nil, err
 				}
-				b = append(b, '"')
-			} else {
-				b = append(b, c.Raw...)
+				break
 			}
+		}
+		var err error
+		if b, err = appendFields(b, st, cells, delim, fits, r, i, where); err != nil {
+			return nil, err
 		}
 		crlf := st.LineEnding == CRLF
 		if st.LineEnding == MixedEndings {
@@ -290,6 +291,39 @@ func writeCSV(st CSVStyle, seed int64, n int, row func(i int) []Messy, where fun
 			sawLF = true
 		}
 	}
+	return encodeCSV(st, b)
+}
+
+// appendFields writes one record's fields, without the line ending.
+func appendFields(b []byte, st CSVStyle, cells []Messy, delim byte, fits func(string) bool, r *rng, i int, where func(i, j int) string) ([]byte, error) {
+	for j, c := range cells {
+		if fits != nil && !fits(c.Raw) {
+			return b, fmt.Errorf("property: %s: %q cannot be written in %s", where(i, j), c.Raw, st.Encoding)
+		}
+		if j > 0 {
+			b = append(b, delim)
+		}
+		if c.IsNull() {
+			continue
+		}
+		if quoteField(st.Quoting, c.Raw, delim, r) {
+			b = append(b, '"')
+			for k := 0; k < len(c.Raw); k++ {
+				if c.Raw[k] == '"' {
+					b = append(b, '"') // RFC 4180 §2 rule 7
+				}
+				b = append(b, c.Raw[k])
+			}
+			b = append(b, '"')
+		} else {
+			b = append(b, c.Raw...)
+		}
+	}
+	return b, nil
+}
+
+// encodeCSV encodes UTF-8 CSV text in the style's encoding.
+func encodeCSV(st CSVStyle, b []byte) ([]byte, error) {
 	switch st.Encoding {
 	case fixtures.EncodingUTF16LE:
 		out, err := unicode.UTF16(unicode.LittleEndian, unicode.UseBOM).NewEncoder().Bytes(b)
@@ -363,7 +397,7 @@ func TableCSV(t *fixtures.Table, style CSVStyle) ([]byte, error) {
 			}
 		}
 		return cells
-	}, func(i, j int) string {
+	}, nil, func(i, j int) string {
 		if i < 0 {
 			return fmt.Sprintf("header of column %d", j+1)
 		}

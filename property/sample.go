@@ -48,12 +48,19 @@ type rawCol struct {
 	name  string // as the raw header spells it
 	plain string // the schema's name, or an extra column's name
 	field int    // index into Schema, or -1 for an extra column
+	from  int    // the first upload of a series that has it (added-column)
 }
 
 // rawRow is one row of the raw table.
 type rawRow struct {
-	rec   int     // the record it spells; duplicates share one
-	cells []Messy // one per raw column
+	rec    int     // the record it spells; duplicates share one; -1 for none
+	cells  []Messy // one per raw column
+	mess   Mess    // a mess of the whole row (an upload mess), or none
+	upload int     // the file of a series it is in
+	// fileOnly: an empty line, which CSV readers skip, so Raw lacks it
+	fileOnly bool
+	// cut: the fields a line cut short has (0: a whole line)
+	cut int
 }
 
 // Generate makes one sample of the given number of raw rows (duplicates
@@ -191,12 +198,12 @@ func generateFrom(schema fixtures.Schema, n int, seed int64, root *rng, c *confi
 		}
 		s.rows = append(s.rows, rawRow{rec: len(s.recs) - 1, cells: row})
 	}
-	if c.shuffle {
-		for i := len(s.rows) - 1; i > 0; i-- {
-			j := sr.intn(i + 1)
-			s.rows[i], s.rows[j] = s.rows[j], s.rows[i]
-		}
+	if c.uploads > 1 {
+		s.splitUploads(sr, root, c)
+	} else if c.shuffle {
+		shuffleRows(sr, s.rows)
 	}
+	s.uploadMess(sr, root, c)
 	// Extra columns need no schema index from here on.
 	for i := range s.cols {
 		if s.cols[i].field < 0 {
@@ -242,7 +249,8 @@ func (s *Sample) Field(j int) int { return s.cols[j].field }
 func (s *Sample) Cell(i, j int) Messy { return s.rows[i].cells[j] }
 
 // Record returns the index of the Clean row that raw row i spells; the
-// rows of a duplicate share one. After shrinking, records left without a
+// rows of a duplicate share one; -1 for a row that spells no record (a
+// repeated header, a total row, a blank line, a line cut short). After shrinking, records left without a
 // raw row are not in Clean, and the index counts only those kept.
 func (s *Sample) Record(i int) int {
 	s.rankOnce.Do(func() {
@@ -251,6 +259,9 @@ func (s *Sample) Record(i int) int {
 			s.rank[r] = k
 		}
 	})
+	if s.rows[i].rec < 0 {
+		return -1
+	}
 	return s.rank[s.rows[i].rec]
 }
 
@@ -259,10 +270,13 @@ func (s *Sample) Record(i int) int {
 func (s *Sample) Duplicates() int { return len(s.rows) - len(s.keptRecords()) }
 
 // MessCounts counts the cells of each single mess (compound messes count
-// once for each part).
+// once for each part), and the rows of each upload mess.
 func (s *Sample) MessCounts() map[Mess]int {
 	out := map[Mess]int{}
 	for _, r := range s.rows {
+		if r.mess != MessNone {
+			out[r.mess]++
+		}
 		for _, c := range r.cells {
 			for _, p := range c.Mess.Parts() {
 				out[p]++
@@ -308,6 +322,9 @@ func (s *Sample) Raw() *fixtures.Table {
 		b := fixtures.NewBuilder(s.textSchema(false))
 		vals := make([]any, len(s.cols))
 		for _, r := range s.rows {
+			if r.fileOnly {
+				continue
+			}
 			for j, c := range r.cells {
 				if c.IsNull() {
 					vals[j] = nil
@@ -324,7 +341,8 @@ func (s *Sample) Raw() *fixtures.Table {
 
 // Plain returns the raw rows and columns with every cell in its plain
 // spelling and the schema's header names: string columns, null where the
-// clean value is null.
+// clean value is null. Rows that spell no record (a repeated header, a
+// total row) stay as they are.
 func (s *Sample) Plain() *fixtures.Table {
 	s.plainOnce.Do(func() {
 		b := fixtures.NewBuilder(s.textSchema(true))
@@ -334,9 +352,14 @@ func (s *Sample) Plain() *fixtures.Table {
 			types[j] = s.colType(j)
 		}
 		for _, r := range s.rows {
+			if r.fileOnly {
+				continue
+			}
 			for j, c := range r.cells {
 				if p, ok := Spell(c.Clean, types[j]); ok {
 					vals[j] = p
+				} else if r.rec < 0 && !c.IsNull() {
+					vals[j] = c.Raw // a row that is no record stays as it is
 				} else {
 					vals[j] = nil
 				}
@@ -352,7 +375,9 @@ func (s *Sample) Plain() *fixtures.Table {
 func (s *Sample) keptRecords() []int {
 	seen := make([]bool, len(s.recs))
 	for _, r := range s.rows {
-		seen[r.rec] = true
+		if r.rec >= 0 {
+			seen[r.rec] = true
+		}
 	}
 	out := make([]int, 0, len(s.recs))
 	for i, ok := range seen {
@@ -428,9 +453,14 @@ func (s *Sample) Simplified() *Sample {
 	for i, r := range s.rows {
 		row := cells[i*len(cols) : (i+1)*len(cols) : (i+1)*len(cols)]
 		for j, c := range r.cells {
-			row[j] = plainCell(c, types[j])
+			if r.rec < 0 {
+				row[j] = c // a row that is no record stays as it is
+			} else {
+				row[j] = plainCell(c, types[j])
+			}
 		}
-		rows[i] = rawRow{rec: r.rec, cells: row}
+		rows[i] = r
+		rows[i].cells = row
 	}
 	return s.derive(cols, rows)
 }

@@ -77,6 +77,9 @@ func shrinkStream(s *Sample) func() (*Sample, bool) {
 					cj = 0
 					ci++
 				}
+				if s.rows[i].rec < 0 {
+					continue // a row that is no record has no plain spelling
+				}
 				c := s.rows[i].cells[jj]
 				if peeled, ok := peelEdge(c); ok {
 					// First take off the edge space laid over another mess;
@@ -180,7 +183,11 @@ func (s *Sample) withoutColumn(d int) *Sample {
 		row := cells[i*w : (i+1)*w : (i+1)*w]
 		copy(row, r.cells[:d])
 		copy(row[d:], r.cells[d+1:])
-		rows[i] = rawRow{rec: r.rec, cells: row}
+		rows[i] = r
+		rows[i].cells = row
+		if r.cut > 0 && d < r.cut {
+			rows[i].cut = max(r.cut-1, 1)
+		}
 	}
 	return s.derive(cols, rows)
 }
