@@ -339,4 +339,3 @@ func (s *Sample) UploadCSVs(style CSVStyle) ([][]byte, error) {
 	}
 	return out, nil
 }
-
