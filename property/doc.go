@@ -15,17 +15,35 @@
 // value it spells, so an invariant can compare a function's result on
 // messy and plain spellings of the same data.
 //
+// The mess keeps to one locale profile (Options.Locale, default en-US;
+// see Locales): its decimal and group marks, currency sign and position,
+// date order and null words, taken from Unicode CLDR. Other locales'
+// spellings come only with the mixed-sources mess.
+//
 // The pieces:
 //   - Cells and Spelled generate cells of one column type; Tables generates
 //     whole samples of a schema (*Sample: Raw, Plain and Clean tables),
 //     with duplicate rows, shuffled rows, missing and extra columns at a
 //     mess level (None, Light, Heavy) and per-kind knobs in Options.
+//   - Rules (Options.Columns) steer one column: the messes it may get,
+//     its locale, null rate and tokens, value range, non-negative,
+//     integer, decimals, uniqueness (sequential or with gaps), weighted
+//     allowed values, string length and alphabet, and columns derived from
+//     others (total = price × qty holds on the clean values).
+//   - Upload messes (Options.Also): re-uploads over overlapping windows, a
+//     column added halfway through a series, a repeated header, a total
+//     row, blank lines, a last line cut short; Sample.Uploads splits a
+//     series into its files.
 //   - Files generates the same samples as CSV bytes with varied
 //     delimiter, quoting, encoding (UTF-8, UTF-8 with BOM, UTF-16LE,
 //     Windows-1252) and line endings; MessyCSV does it deterministically
 //     from a seed, for the command line's gen.
 //   - SampleShrinker and FileShrinker shrink failures for gopter; Shrink,
-//     ShrinkFile and ShrinkTable do it without gopter.
+//     ShrinkFile and ShrinkTable do it without gopter. Samples shrink by
+//     rows, columns, spellings and then values, within the column's rules.
+//   - FromBytes, FileFromBytes and Fuzz drive the generators from go test
+//     -fuzz: the fuzz input is the random source of a sample.
+//   - ParseGenSpec reads the schema files of proofsheet gen and hammer.
 //   - Invariants (NoPanic, Idempotent, OrderFree, KeepsTotal, NoNulls,
 //     SameOnPlain, Agrees, MatchesClean, Holds) become gopter properties
 //     with Prop and FileProp, or run in one call with Check and
@@ -56,9 +74,10 @@
 //
 // A failure reads like:
 //
-//	property: invariant "same on plain spellings" failed after 12 passing samples
+//	property: 2 invariants failed on the same sample after 12 passing samples: "same on plain spellings", "no nulls in house, at"
 //	seed 1718000000 (from the clock); re-run with: PROOFSHEET_SEED=1718000000 go test -run '^TestCleanReadings$'
 //	same on plain spellings: the result for the messy spellings differs …
+//	no nulls in house, at: output column "at": got 1 null cell …
 //	sample seed 4242: 37 rows × 3 columns, shrunk in 14 steps to 1 row × 1 column; paste it into a test:
 //		raw := fixtures.MustParse(t, `
 //			temp_c:string
