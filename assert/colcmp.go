@@ -139,31 +139,31 @@ func (cc *colCmp) ruleText() string {
 	case classFloat, classIntFloat:
 		switch r := cc.rule; {
 		case r.hasULP:
-			s = formatUint(r.ulps) + " ULPs"
+			s = "at most " + formatUint(r.ulps) + " ULPs apart"
 		case r.hasTol && r.rel == 0:
-			s = "abs " + fixtures.FormatFloat(r.abs)
+			s = "abs. diff ≤ " + fixtures.FormatFloat(r.abs)
 		case r.hasTol && r.abs == 0:
-			s = "rel " + fixtures.FormatFloat(r.rel)
+			s = "rel. diff ≤ " + fixtures.FormatFloat(r.rel)
 		case r.hasTol:
-			s = "abs " + fixtures.FormatFloat(r.abs) + " rel " + fixtures.FormatFloat(r.rel)
+			s = "abs. diff ≤ " + fixtures.FormatFloat(r.abs) + " or rel. diff ≤ " + fixtures.FormatFloat(r.rel)
 		default:
 			s = "exact"
 		}
 		if cc.class == classIntFloat {
-			s = "by value, " + s
+			s = "int64 vs float64 by value, " + s
 		}
 		if cc.nanNul {
 			s += ", NaN = null"
 		}
 	case classDecimal:
-		s = "exact, by value"
+		s = "exact, by value (1.5 = 1.50)"
 	case classText:
 		s = "exact"
 		if cc.norm != 0 {
-			s = "text " + cc.norm.String()
+			s = "exact after " + cc.norm.String()
 		}
 		if cc.wc.Kind() != cc.gc.Kind() {
-			s = "by text, " + s
+			s = "category vs string by text, " + s
 		}
 	case classDate, classTime, classDateTime:
 		s = "exact"
@@ -171,7 +171,7 @@ func (cc *colCmp) ruleText() string {
 			s = "within " + cc.tt.String()
 		}
 		if cc.class == classDateTime {
-			s = "date as midnight, " + s
+			s = "date as midnight timestamp, " + s
 		}
 	default:
 		s = "exact"

@@ -177,7 +177,7 @@ func TestColumnSummaries(t *testing.T) {
 	require.Equal(t, 2, v.MaxAbsAt.Want)
 	require.InDelta(t, 3.0/33, v.MaxRel, 1e-12)
 	require.Equal(t, 2, v.MaxRelAt.Want)
-	require.Equal(t, "abs 0.01", v.Rule)
+	require.Equal(t, "abs. diff ≤ 0.01", v.Rule)
 	// The within-tolerance cell counts toward the maximum only if larger;
 	// here the listed cells are rows 1 and 2.
 	require.Equal(t, 2, d.Cells.Len())
@@ -780,7 +780,7 @@ func TestULPDeltaIsReported(t *testing.T) {
 	require.Equal(t, 1, d.CellsDiffering)
 	require.True(t, d.Cells.At(0).Delta.HasULPs)
 	require.Equal(t, uint64(3), d.Cells.At(0).Delta.ULPs)
-	require.Equal(t, "2 ULPs", d.Columns[0].Rule)
+	require.Equal(t, "at most 2 ULPs apart", d.Columns[0].Rule)
 	require.Contains(t, d.Text(), "(3 ulp)")
 	require.True(t, Compare(want, got, ULPs("v", 3)).Equal())
 }

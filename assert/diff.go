@@ -154,7 +154,9 @@ type RowList struct {
 
 // RowRef names a row: by its 0-based index in each table (-1 on the side
 // where it is absent) and, when rows are matched by key, by the text of its
-// key cells. Cells, filled only for missing and extra rows, holds the row's
+// key cells. The reports (text, Markdown, HTML, JSON, the command line)
+// show row numbers instead, counting from 1 for the first data row under
+// the header, as the LoadReport does. Cells, filled only for missing and extra rows, holds the row's
 // cells in the literal table spelling (fixtures.LiteralCell), in its own
 // table's column order.
 type RowRef struct {
@@ -237,8 +239,10 @@ type ColumnSummary struct {
 	Name string
 	// WantType and GotType are the column's types on each side.
 	WantType, GotType fixtures.Type
-	// Rule says how cells were compared: "exact", "abs 0.01 rel 1e-09",
-	// "4 ULPs", "within 1s", "text NFC+trim", "by value" (LooseTypes), ….
+	// Rule says how cells were compared, in words a reader needs no manual
+	// for: "exact", "abs. diff ≤ 0.01 or rel. diff ≤ 1e-09", "at most 4
+	// ULPs apart", "within 1s", "exact after NFC+trim", "int64 vs float64
+	// by value, exact", ….
 	Rule string
 	// Differing is the exact number of differing cells.
 	Differing int

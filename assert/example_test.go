@@ -28,15 +28,15 @@ func ExampleCompare() {
 	// want 2 rows, got 2 rows; rows paired by position
 	//
 	// differing cells (2)
-	//   row  column  want      got              Δabs     Δrel
-	//     0  kept    140       139                 1  0.00714
-	//     1  house   Les Pins  "Les\u00a0Pins"
+	//   row  column  want      got              abs. diff  rel. diff
+	//     1  kept    140       139                      1    0.00714
+	//     2  house   Les Pins  "Les\u00a0Pins"
 	//        edit: Les⟦⟨sp⟩→⟨nbsp⟩⟧Pins
 	//
 	// columns
-	//   column  compared  differing  max Δabs  at     max Δrel  at
-	//   house   exact             1
-	//   kept    exact             1         1  row 0   0.00714  row 0
+	//   column  how compared  cells differ  max abs. diff  max rel. diff  where max
+	//   house   exact                    1
+	//   kept    exact                    1              1        0.00714  row 1
 }
 
 // printT is a stand-in for *testing.T that prints what a failing test
@@ -61,11 +61,11 @@ func ExampleTables() {
 	fmt.Println(ok)
 	// Output:
 	// tables differ: 1 missing row
-	// want 2 rows, got 1 rows; rows matched by key (house)
+	// want 2 rows, got 1 row; rows matched by key (house)
 	//
 	// missing rows (1, in want, not in got)
 	//   row  house   readings  dropped
-	//     1  Verger  120       24
+	//     2  Verger  120       24
 	// false
 }
 
@@ -93,13 +93,13 @@ func ExampleByKey() {
 	// want 3 rows, got 3 rows; rows matched by key (house, day)
 	//
 	// differing cells (1)
-	//   house  day         column  want  got  Δabs    Δrel
-	//   Étang  2026-04-02  gdd     9.3   9.4   0.1  0.0106
+	//   house  day         column  want  got  abs. diff  rel. diff
+	//   Étang  2026-04-02  gdd     9.3   9.4        0.1     0.0106
 	//
 	// columns
-	//   column  compared   differing  max Δabs  at                    max Δrel  at
-	//   tmean   abs 1e-09          0  1.78e-15  (Verger, 2026-04-01)   1.4e-16  (Verger, 2026-04-01)
-	//   gdd     abs 1e-09          1       0.1  (Étang, 2026-04-02)     0.0106  (Étang, 2026-04-02)
+	//   column  how compared       cells differ  max abs. diff  max rel. diff  where max
+	//   tmean   abs. diff ≤ 1e-09             0       1.78e-15        1.4e-16  (Verger, 2026-04-01)
+	//   gdd     abs. diff ≤ 1e-09             1            0.1         0.0106  (Étang, 2026-04-02)
 }
 
 func ExampleDiff_JSON() {
@@ -165,17 +165,17 @@ func ExampleDiff_JSON() {
 	//       "name": "tmin",
 	//       "want_type": "float64",
 	//       "got_type": "int64",
-	//       "rule": "by value, exact",
+	//       "rule": "int64 vs float64 by value, exact",
 	//       "differing": 1,
 	//       "max_abs_delta": 0.5,
 	//       "max_rel_delta": 0.058823529411764705,
 	//       "max_abs_at": {
-	//         "want": 0,
-	//         "got": 0
+	//         "want": 1,
+	//         "got": 1
 	//       },
 	//       "max_rel_at": {
-	//         "want": 0,
-	//         "got": 0
+	//         "want": 1,
+	//         "got": 1
 	//       }
 	//     }
 	//   ],
@@ -227,13 +227,13 @@ func ExampleDiff_WriteText() {
 	// want 3 rows, got 3 rows; rows matched by key (house)
 	//
 	// differing cells (2)
-	//   house   column  want  got    Δabs    Δrel
-	//   Étang   tmax    21.5  21.75  0.25  0.0115
-	//   Source  tmax    17    17.5    0.5  0.0286
+	//   house   column  want  got    abs. diff  rel. diff
+	//   Étang   tmax    21.5  21.75       0.25     0.0115
+	//   Source  tmax    17    17.5         0.5     0.0286
 	//
 	// columns
-	//   column  compared  differing  max Δabs  at        max Δrel  at
-	//   tmax    exact             2       0.5  (Source)    0.0286  (Source)
+	//   column  how compared  cells differ  max abs. diff  max rel. diff  where max
+	//   tmax    exact                    2            0.5         0.0286  (Source)
 }
 
 // Code that computes a Diff elsewhere — in a SQL engine, say — fills its
@@ -265,7 +265,7 @@ func ExampleListOf() {
 	//
 	// #### Differing cells (1)
 	//
-	// | `house` | column | want | got | Δabs | Δrel |
+	// | `house` | column | want | got | abs. diff | rel. diff |
 	// |---|---|---|---|---|---|
 	// | `Verger` | `kept` | `140` | `139` | 1 | 0.00714 |
 }

@@ -363,7 +363,7 @@ func (c *comparison) nearMatchHint() {
 			for i, k := range c.keyCols {
 				// Keys that print alike (composed and decomposed accents)
 				// are shown with their code points spelled out.
-				if wk[i] == gk[i] && k.class == classText && !k.wc.IsNull(int(wi)) && !k.gc.IsNull(int(gi)) {
+				if wk[i] == gk[i] && k.class == classText && !k.wc.IsNull(int(wi)) && !k.gc.IsNull(int(gi)) && k.wc.Str(int(wi)) != k.gc.Str(int(gi)) {
 					wk[i], gk[i] = strconv.QuoteToASCII(k.wc.Str(int(wi))), strconv.QuoteToASCII(k.gc.Str(int(gi)))
 				}
 			}

@@ -83,7 +83,7 @@ func (d *Diff) WriteHTML(w io.Writer) error {
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
 			for i, r := range k.Rows {
-				at[i] = strconv.Itoa(r)
+				at[i] = rowNumber(r)
 			}
 			if len(k.Rows) < k.Count {
 				at = append(at, "…")
@@ -99,7 +99,7 @@ func (d *Diff) WriteHTML(w io.Writer) error {
 	}
 	if cols := d.notableColumns(); len(cols) > 0 {
 		h.heading("Columns")
-		h.table("ps-columns", []string{"column", "compared", "differing", "max Δabs", "at", "max Δrel", "at"})
+		h.table("ps-columns", []string{"column", "how compared", "cells differ", "max abs. diff", "at", "max rel. diff", "at"})
 		for _, c := range cols {
 			row := []string{"", "", "", ""}
 			if c.HasDelta && c.MaxAbsAt.Want >= 0 {
@@ -233,12 +233,12 @@ func (d *Diff) htmlGrid(h *htmlWriter) {
 func (d *Diff) htmlCell(h *htmlWriter, c CellDiff) {
 	note := ""
 	if c.Delta.Has {
-		note = "Δ " + formatAbs(c.Delta.Abs, c.Want.Kind)
+		note = "abs. diff " + formatAbs(c.Delta.Abs, c.Want.Kind)
 		if c.Delta.HasULPs {
 			note += " (" + strconv.FormatUint(c.Delta.ULPs, 10) + " ulp)"
 		}
 		if !isTimeKind(c.Want.Kind) && !isTimeKind(c.Got.Kind) && c.Delta.Rel != 0 {
-			note += ", rel " + formatRel(c.Delta.Rel)
+			note += ", rel. diff " + formatRel(c.Delta.Rel)
 		}
 	} else if ws, gs, ok := textPair(&c); ok {
 		if e, ok := textEdit(ws, gs, editStyle{}); ok {
@@ -274,7 +274,7 @@ func (d *Diff) htmlRows(h *htmlWriter, title, class string, l RowList, cols []st
 			idx = r.Got
 		}
 		h.raw("<tr>")
-		h.elem("th", "ps-key", strconv.Itoa(idx))
+		h.elem("th", "ps-key", rowNumber(idx))
 		for _, c := range r.Cells {
 			h.elem("td", "", c)
 		}

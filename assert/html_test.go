@@ -91,7 +91,7 @@ func TestHTMLMarksEveryDifferingCell(t *testing.T) {
 	grid := byClass(nodes, "ps-grid")
 	require.Len(t, grid, 1)
 	require.Contains(t, grid[0].text, "Les Pins2026-04-01")
-	require.Contains(t, grid[0].text, "Δ 0.05")
+	require.Contains(t, grid[0].text, "abs. diff 0.05")
 	require.Contains(t, grid[0].text, "vent⟦⟨sp⟩→⟨nbsp⟩⟧open", "text cells carry the character edit")
 	require.Len(t, byClass(nodes, "ps-verdict"), 1)
 	require.Equal(t, "Tables differ: 1 schema change, 3 differing cells in 2 rows, 1 missing row, 1 extra row", byClass(nodes, "ps-verdict")[0].text)
@@ -184,5 +184,5 @@ func ExampleDiff_HTML() {
 	fmt.Println(page[start : strings.Index(page[start:], "</td>")+start+5])
 	// Output:
 	// 1 marked cell
-	// <td class="ps-changed" data-column="tmax"><del>21.5</del><ins>22</ins><small class="ps-note">Δ 0.5, rel 0.0227</small></td>
+	// <td class="ps-changed" data-column="tmax"><del>21.5</del><ins>22</ins><small class="ps-note">abs. diff 0.5, rel. diff 0.0227</small></td>
 }

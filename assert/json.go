@@ -20,7 +20,9 @@ import (
 // {column, change, want, got} are fixed; the others (match, keys, the
 // column lists, rows_differing, problems, duplicate keys, the listed cells
 // and rows, hints[] {kind, column, text, option, flag, name, suggest,
-// factor, offset, count, pairs[]}) complete the picture. Lists are never null, and a delta that
+// factor, offset, count, pairs[]}) complete the picture. Rows are
+// numbered from 1, the first data row, as in every other report; the Go
+// fields (RowRef.Want, DuplicateKey.Rows) are 0-based indexes. Lists are never null, and a delta that
 // is not a finite number (an infinity) is written as null. The output is
 // the same for the same Diff, and DiffFromJSON reads it back.
 func (d *Diff) JSON() ([]byte, error) {
@@ -94,7 +96,7 @@ func (d *Diff) WriteJSON(w io.Writer) error {
 		out.Columns = append(out.Columns, jc)
 	}
 	for _, k := range d.Duplicates.Keys {
-		out.Duplicates = append(out.Duplicates, jsonDup{Side: string(k.Side), Key: orEmpty(k.Key), Count: k.Count, Rows: orEmpty(k.Rows)})
+		out.Duplicates = append(out.Duplicates, jsonDup{Side: string(k.Side), Key: orEmpty(k.Key), Count: k.Count, Rows: rowNumbers(k.Rows)})
 	}
 	// The object is written field by field in the order of jsonDiff, as
 	// json.MarshalIndent(out, "", "  ") would, with the listings streamed.
@@ -326,12 +328,34 @@ func jsonNumOrNull() jsonNum { return jsonNum(math.NaN()) }
 func jsonRowOf(r RowRef) *jsonRow {
 	out := &jsonRow{Key: r.Key, Cells: r.Cells}
 	if r.Want >= 0 {
-		w := r.Want
+		w := r.Want + 1
 		out.Want = &w
 	}
 	if r.Got >= 0 {
-		g := r.Got
+		g := r.Got + 1
 		out.Got = &g
+	}
+	return out
+}
+
+// rowNumbers turns 0-based row indexes into the row numbers the JSON
+// writes, counting from 1.
+func rowNumbers(rows []int) []int {
+	out := make([]int, len(rows))
+	for i, r := range rows {
+		out[i] = r + 1
+	}
+	return out
+}
+
+// rowIndexes undoes rowNumbers.
+func rowIndexes(rows []int) []int {
+	if rows == nil {
+		return nil
+	}
+	out := make([]int, len(rows))
+	for i, r := range rows {
+		out[i] = r - 1
 	}
 	return out
 }
@@ -433,7 +457,7 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 	}
 	d.Cells = ListOf(cells...)
 	for _, k := range j.Duplicates {
-		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: k.Rows})
+		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: rowIndexes(k.Rows)})
 	}
 	for _, jh := range j.Hints {
 		h := Hint{Kind: HintKind(jh.Kind), Column: jh.Column, Text: jh.Text, Option: jh.Option, Flag: jh.Flag,
@@ -470,10 +494,10 @@ func rowFromJSON(r *jsonRow) RowRef {
 		return out
 	}
 	if r.Want != nil {
-		out.Want = *r.Want
+		out.Want = *r.Want - 1
 	}
 	if r.Got != nil {
-		out.Got = *r.Got
+		out.Got = *r.Got - 1
 	}
 	out.Key, out.Cells = r.Key, r.Cells
 	return out

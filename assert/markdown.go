@@ -4,7 +4,6 @@ import (
 	"bufio"
 	"fmt"
 	"io"
-	"strconv"
 	"strings"
 )
 
@@ -31,7 +30,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 	b := bufio.NewWriterSize(w, 64<<10)
 	p := func(format string, args ...any) { fmt.Fprintf(b, format, args...) }
 	if d.Equal() {
-		p("**Tables are equal** — %d rows, %d columns compared; %s.\n", d.WantRows, len(d.Compared), strings.TrimPrefix(d.matchLine(), d.sizeLine()))
+		p("**Tables are equal** — %s, %s compared; %s.\n", plural(d.WantRows, "row", "rows"), plural(len(d.Compared), "column", "columns"), strings.TrimPrefix(d.matchLine(), d.sizeLine()))
 		return b.Flush()
 	}
 	p("**%s**\n\n", capitalise(d.headline()))
@@ -75,7 +74,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 				head = append(head, mdCode(k))
 			}
 		}
-		head = append(head, "column", d.wantName(), d.gotName(), "Δabs", "Δrel")
+		head = append(head, "column", d.wantName(), d.gotName(), "abs. diff", "rel. diff")
 		p("| %s |\n|%s\n", strings.Join(head, " | "), strings.Repeat("---|", len(head)))
 		edits := false
 		eachCell(d.Cells, func(_ int, c *CellDiff) bool {
@@ -132,7 +131,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 			if idx < 0 {
 				idx = r.Got
 			}
-			p("| %d | %s |\n", idx, mdJoin(r.Cells))
+			p("| %s | %s |\n", rowNumber(idx), mdJoin(r.Cells))
 		}
 	}
 	mdRows("Missing rows: in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns)
@@ -142,13 +141,13 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
 			for i, r := range k.Rows {
-				at[i] = strconv.Itoa(r)
+				at[i] = rowNumber(r)
 			}
 			p("| %s | %s | %d | %s |\n", d.sideName(k.Side), mdCode("("+strings.Join(k.Key, ", ")+")"), k.Count, strings.Join(at, ", "))
 		}
 	}
 	if cols := d.notableColumns(); len(cols) > 0 {
-		p("\n#### Columns\n\n| column | compared | differing | max Δabs | max Δrel |\n|---|---|--:|--:|--:|\n")
+		p("\n#### Columns\n\n| column | how compared | cells differ | max abs. diff | max rel. diff |\n|---|---|--:|--:|--:|\n")
 		for _, c := range cols {
 			abs, rel := "", ""
 			if c.HasDelta && c.MaxAbsAt.Want >= 0 {

@@ -69,7 +69,7 @@ func TestText(t *testing.T) {
 	require.True(t, strings.HasPrefix(text, "tables differ: 1 schema change, 3 differing cells in 2 rows, 1 missing row, 1 extra row\n"), text)
 	require.Contains(t, text, "want 3 rows, got 3 rows; rows matched by key (house, day)")
 	// Keys first, then the column, want, got and the deltas.
-	require.Regexp(t, `(?m)^  house +day +column +want +got +Δabs +Δrel$`, text)
+	require.Regexp(t, `(?m)^  house +day +column +want +got +abs\. diff +rel\. diff$`, text)
 	require.Regexp(t, `(?m)^  Les Pins +2026-04-01 +tmax +18\.25 +18\.3 +0\.05 +0\.00273$`, text)
 	require.Contains(t, text, "edit: vent⟦⟨sp⟩→⟨nbsp⟩⟧open")
 	require.Contains(t, text, "missing rows (1, in want, not in got)")
@@ -94,7 +94,8 @@ func TestText(t *testing.T) {
 func TestTextOfEqualAndBrokenDiffs(t *testing.T) {
 	tb := lit(t, `a:int64
 		1`)
-	require.Equal(t, "tables are equal (1 rows, 1 columns compared)\nwant 1 rows, got 1 rows; rows paired by position\n", Compare(tb, tb).Text())
+	// Correct plurals: "1 row", never "1 rows".
+	require.Equal(t, "tables are equal (1 row, 1 column compared)\nwant 1 row, got 1 row; rows paired by position\n", Compare(tb, tb).Text())
 	text := Compare(nil, tb).Text()
 	require.Contains(t, text, "problems")
 	require.Contains(t, text, "! want is a nil table")
@@ -157,7 +158,7 @@ func TestMarkdown(t *testing.T) {
 	require.True(t, strings.HasPrefix(md, "**Tables differ: "), md)
 	require.Contains(t, md, "| rows | 3 | 3 |")
 	require.Contains(t, md, "#### Differing cells (3)")
-	require.Contains(t, md, "| `house` | `day` | column | want | got | Δabs | Δrel |")
+	require.Contains(t, md, "| `house` | `day` | column | want | got | abs. diff | rel. diff |")
 	require.Contains(t, md, "`vent⟦⟨sp⟩→⟨nbsp⟩⟧open`")
 	require.Contains(t, md, "`\"a\\|b\"`", "pipes in cells are escaped")
 	require.Contains(t, md, "#### Schema changes")

@@ -101,15 +101,15 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 	if d.CellsDiffering > 0 {
 		tw.cells(d)
 	}
-	tw.rowList("missing rows", "in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns, ansiWant)
-	tw.rowList("extra rows", "in "+d.gotName()+", not in "+d.wantName(), d.Extra, d.GotColumns, ansiGot)
+	tw.rowList(d, "missing rows", "in "+d.wantName()+", not in "+d.gotName(), d.Missing, d.WantColumns, ansiWant)
+	tw.rowList(d, "extra rows", "in "+d.gotName()+", not in "+d.wantName(), d.Extra, d.GotColumns, ansiGot)
 	if n := d.Duplicates.WantKeys + d.Duplicates.GotKeys; n > 0 {
 		tw.section(fmt.Sprintf("repeated keys (%s %d, %s %d)%s", d.wantName(), d.Duplicates.WantKeys, d.gotName(), d.Duplicates.GotKeys, shown(len(d.Duplicates.Keys), n)))
 		rows := [][]string{{"side", "key", "rows", "at rows"}}
 		for _, k := range d.Duplicates.Keys {
 			at := make([]string, len(k.Rows))
 			for i, r := range k.Rows {
-				at[i] = strconv.Itoa(r)
+				at[i] = rowNumber(r)
 			}
 			more := ""
 			if len(k.Rows) < k.Count {
@@ -117,24 +117,31 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 			}
 			rows = append(rows, []string{d.sideName(k.Side), "(" + strings.Join(k.Key, ", ") + ")", strconv.Itoa(k.Count), strings.Join(at, ", ") + more})
 		}
-		tw.table(rows, map[int]bool{2: true}, nil)
+		tw.table(rows, map[int]bool{2: true}, nil, 1)
 	}
 	if cols := d.notableColumns(); len(cols) > 0 {
 		tw.section("columns")
-		rows := [][]string{{"column", "compared", "differing", "max Δabs", "at", "max Δrel", "at"}}
+		rows := [][]string{{"column", "how compared", "cells differ", "max abs. diff", "max rel. diff", "where max"}}
 		for _, c := range cols {
-			row := []string{c.Name, c.Rule, strconv.Itoa(c.Differing), "", "", "", ""}
+			row := []string{c.Name, c.Rule, strconv.Itoa(c.Differing), "", "", ""}
 			if c.HasDelta && c.MaxAbsAt.Want >= 0 {
-				row[3], row[4] = formatAbs(c.MaxAbs, c.WantType.Kind()), d.rowName(c.MaxAbsAt)
-				if isTimeKind(c.WantType.Kind()) || isTimeKind(c.GotType.Kind()) {
-					row[4] = d.rowName(c.MaxAbsAt)
-				} else if c.MaxRelAt.Want >= 0 {
-					row[5], row[6] = formatRel(c.MaxRel), d.rowName(c.MaxRelAt)
+				row[3], row[5] = formatAbs(c.MaxAbs, c.WantType.Kind()), d.rowName(c.MaxAbsAt)
+				if !isTimeKind(c.WantType.Kind()) && !isTimeKind(c.GotType.Kind()) && c.MaxRelAt.Want >= 0 {
+					row[4] = formatRel(c.MaxRel)
+					if at := d.rowName(c.MaxRelAt); at != row[5] {
+						row[5] = "abs. " + row[5] + ", rel. " + at
+					}
 				}
 			}
 			rows = append(rows, row)
 		}
-		tw.table(rows, map[int]bool{2: true, 3: true, 5: true}, nil)
+		t := tw.newTable(rows[0], map[int]bool{2: true, 3: true, 4: true}, nil)
+		t.keepWhole(5)
+		t.below = true
+		for _, r := range rows[1:] {
+			t.add(r, "")
+		}
+		t.end()
 	}
 	return tw.out.Flush()
 }
@@ -142,7 +149,7 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 // headline is the first line: equal, or how many of what differ.
 func (d *Diff) headline() string {
 	if d.Equal() {
-		return fmt.Sprintf("tables are equal (%d rows, %d columns compared)", d.WantRows, len(d.Compared))
+		return fmt.Sprintf("tables are equal (%s, %s compared)", plural(d.WantRows, "row", "rows"), plural(len(d.Compared), "column", "columns"))
 	}
 	var parts []string
 	add := func(n int, one, many string) {
@@ -181,7 +188,7 @@ func (d *Diff) matchLine() string {
 
 // sizeLine is the start of matchLine: "want 3 rows, got 4 rows; ".
 func (d *Diff) sizeLine() string {
-	return fmt.Sprintf("%s %d rows, %s %d rows; ", d.wantName(), d.WantRows, d.gotName(), d.GotRows)
+	return fmt.Sprintf("%s %s, %s %s; ", d.wantName(), plural(d.WantRows, "row", "rows"), d.gotName(), plural(d.GotRows, "row", "rows"))
 }
 
 func (d *Diff) describeChange(c ChangeKind) string {
@@ -189,7 +196,7 @@ func (d *Diff) describeChange(c ChangeKind) string {
 	case ColumnMissing:
 		return "missing from " + d.gotName()
 	case ColumnExtra:
-		return "only in " + d.gotName()
+		return "extra in " + d.gotName()
 	case TypeChanged:
 		return "type changed"
 	case LevelsAdded:
@@ -210,18 +217,23 @@ func shown(listed, total int) string {
 	return ""
 }
 
+// rowNumber writes a 0-based row index as the row number every report
+// shows: rows count from 1, the first data row under the header, as the
+// LoadReport and the literal table's line numbers do.
+func rowNumber(i int) string { return strconv.Itoa(i + 1) }
+
 // rowName names a row for a reader: its key cells, or its index.
 func (d *Diff) rowName(r RowRef) string {
 	if len(r.Key) > 0 {
 		return "(" + strings.Join(r.Key, ", ") + ")"
 	}
 	if r.Want >= 0 && r.Got >= 0 && r.Want != r.Got {
-		return fmt.Sprintf("row %d→%d", r.Want, r.Got)
+		return "row " + rowNumber(r.Want) + "→" + rowNumber(r.Got)
 	}
 	if r.Want >= 0 {
-		return "row " + strconv.Itoa(r.Want)
+		return "row " + rowNumber(r.Want)
 	}
-	return "row " + strconv.Itoa(r.Got)
+	return "row " + rowNumber(r.Got)
 }
 
 // notableColumns are the summaries worth a line: columns with differing
@@ -272,12 +284,17 @@ func (w *textWriter) cells(d *Diff) {
 		head = append(head, "row")
 	}
 	nk := len(head)
-	head = append(head, "column", d.wantName(), d.gotName(), "Δabs", "Δrel")
+	head = append(head, "column", d.wantName(), d.gotName(), "abs. diff", "rel. diff")
 	right := map[int]bool{nk + 3: true, nk + 4: true}
 	if !keyed {
 		right[0] = true
 	}
 	t := w.newTable(head, right, map[int]string{nk + 1: ansiWant, nk + 2: ansiGot})
+	if keyed {
+		for j := range nk {
+			t.keepWhole(j)
+		}
+	}
 	st := editStyle{}
 	if w.st.Color {
 		st = editStyle{want: ansiWant, got: ansiGot, reset: ansiReset}
@@ -338,9 +355,9 @@ func rawText(c Cell) (string, bool) {
 
 func (d *Diff) rowIndex(r RowRef) string {
 	if r.Want != r.Got && r.Got >= 0 {
-		return fmt.Sprintf("%d→%d", r.Want, r.Got)
+		return rowNumber(r.Want) + "→" + rowNumber(r.Got)
 	}
-	return strconv.Itoa(r.Want)
+	return rowNumber(r.Want)
 }
 
 // hints writes the hints, each with its fix, and near matches side by
@@ -364,38 +381,86 @@ func (w *textWriter) hints(d *Diff) {
 				w.line("    " + l)
 			}
 		}
-		if len(h.Pairs) > 0 {
-			rows := [][]string{{"missing row (want)", "", "extra row (got)", "differs by"}}
-			for _, p := range h.Pairs {
-				rows = append(rows, []string{d.rowName(p.Missing), "⇄", d.rowName(p.Extra), strings.Join(p.Why, ", ")})
+		// Each pair side by side on one line, or, when the keys are too
+		// long for that, one above the other; never cut.
+		for _, p := range h.Pairs {
+			mk, ek, why := d.rowName(p.Missing), d.rowName(p.Extra), "differs by "+strings.Join(p.Why, ", ")
+			line := "    " + w.paint(ansiWant, mk) + "  ⇄  " + w.paint(ansiGot, ek) + "  " + why
+			if textwidth.Width(mk)+textwidth.Width(ek)+textwidth.Width(why)+13 <= w.st.Width {
+				w.line(line)
+				continue
 			}
-			if h.Count > len(h.Pairs) {
-				rows = append(rows, []string{fmt.Sprintf("… %d more", h.Count-len(h.Pairs)), "", "", ""})
-			}
-			w.table(rows, nil, map[int]string{0: ansiWant, 2: ansiGot})
+			wn, gn := d.wantName()+":", d.gotName()+":"
+			pad := max(textwidth.Width(wn), textwidth.Width(gn))
+			w.line("    " + textwidth.PadRight(wn, pad) + " " + w.paint(ansiWant, mk))
+			w.line("    " + textwidth.PadRight(gn, pad) + " " + w.paint(ansiGot, ek) + "  " + why)
+		}
+		if h.Count > len(h.Pairs) {
+			w.line(fmt.Sprintf("    … %d more", h.Count-len(h.Pairs)))
 		}
 	}
 }
 
 // rowList writes missing or extra rows as a small table of their cells.
-func (w *textWriter) rowList(title, note string, l RowList, cols []string, colour string) {
+// With keys, the key columns come first and are never cut.
+func (w *textWriter) rowList(d *Diff, title, note string, l RowList, cols []string, colour string) {
 	if l.Count == 0 {
 		return
 	}
 	w.section(fmt.Sprintf("%s (%d, %s)%s", title, l.Count, note, shown(l.Rows.Len(), l.Count)))
+	order := keysFirst(d, cols)
+	head := []string{"row"}
 	paint := map[int]string{}
-	for j := range cols {
-		paint[j+1] = colour
+	for k, j := range order {
+		head = append(head, cols[j])
+		paint[k+1] = colour
 	}
-	t := w.newTable(append([]string{"row"}, cols...), map[int]bool{0: true}, paint)
+	t := w.newTable(head, map[int]bool{0: true}, paint)
+	if d.Match == MatchByKey {
+		for k := range d.Keys {
+			t.keepWhole(k + 1)
+		}
+	}
 	for _, r := range l.Rows.All() {
 		idx := r.Want
 		if idx < 0 {
 			idx = r.Got
 		}
-		t.add(append([]string{strconv.Itoa(idx)}, r.Cells...), "")
+		row := []string{rowNumber(idx)}
+		for _, j := range order {
+			if j < len(r.Cells) {
+				row = append(row, r.Cells[j])
+			} else {
+				row = append(row, "")
+			}
+		}
+		t.add(row, "")
 	}
 	t.end()
+}
+
+// keysFirst returns the order in which to show the columns cols: the key
+// columns first (rows matched by key), then the others in their order.
+func keysFirst(d *Diff, cols []string) []int {
+	var order []int
+	isKey := map[int]bool{}
+	if d.Match == MatchByKey {
+		for _, k := range d.Keys {
+			for j, c := range cols {
+				if c == k && !isKey[j] {
+					order = append(order, j)
+					isKey[j] = true
+					break
+				}
+			}
+		}
+	}
+	for j := range cols {
+		if !isKey[j] {
+			order = append(order, j)
+		}
+	}
+	return order
 }
 
 // textWriter writes the text report. Empty lines are held back until a
@@ -432,12 +497,14 @@ func (w *textWriter) paint(code, s string) string {
 	return code + s + ansiReset
 }
 
-// table writes rows (the first is the header) as one aligned table.
-func (w *textWriter) table(rows [][]string, right map[int]bool, paint map[int]string) {
+// table writes rows (the first is the header) as one aligned table;
+// whole names columns whose cells are never cut (keys).
+func (w *textWriter) table(rows [][]string, right map[int]bool, paint map[int]string, whole ...int) {
 	if len(rows) == 0 {
 		return
 	}
 	t := w.newTable(rows[0], right, paint)
+	t.keepWhole(whole...)
 	for _, r := range rows[1:] {
 		t.add(r, "")
 	}
@@ -448,25 +515,40 @@ func (w *textWriter) table(rows [][]string, right map[int]bool, paint map[int]st
 const textBlock = 4096
 
 // textTable writes rows as aligned columns two spaces apart, indented by
-// two, cutting the widest columns until the lines fit the width. Rows are
-// laid out in blocks of textBlock: the first block (with the header)
-// decides which columns are shown; later blocks keep the columns at least
-// as wide as before.
+// two, cutting the widest columns until the lines fit the width. Columns
+// named by keepWhole (keys) are never cut: when they do not fit beside
+// the others at their full width, they leave the table and each of their
+// cells is written on a line of its own under its row. Rows are laid out
+// in blocks of textBlock: the first block (with the header) decides which
+// columns are shown; later blocks keep the columns at least as wide as
+// before.
 type textTable struct {
-	w      *textWriter
-	head   []string
-	right  map[int]bool
-	paint  map[int]string
-	rows   [][]string
-	after  []string
-	ncol   int
-	widths []int // nil until the first block is written
-	keep   int   // columns shown when too many to fit (then a last column says how many are left out); 0: all
-	more   string
+	w       *textWriter
+	head    []string
+	right   map[int]bool
+	paint   map[int]string
+	whole   map[int]bool
+	label   map[int]string // names of moved-out columns, when not their header
+	below   bool           // moved-out cells go below their row, one a line (else above it, on one line)
+	rows    [][]string
+	after   []string
+	ncol    int
+	vis     []int // the columns in the table, in order; nil until the first block is written
+	widths  []int // the width of each of vis, then of the "…+N" column when columns are left out
+	moved   []int // whole columns written on lines of their own
+	more    string
+	leftOut bool
 }
 
 func (w *textWriter) newTable(head []string, right map[int]bool, paint map[int]string) *textTable {
-	return &textTable{w: w, head: head, right: right, paint: paint}
+	return &textTable{w: w, head: head, right: right, paint: paint, whole: map[int]bool{}}
+}
+
+// keepWhole names columns whose cells are never cut.
+func (t *textTable) keepWhole(cols ...int) {
+	for _, j := range cols {
+		t.whole[j] = true
+	}
 }
 
 // add adds a body row; after, when not empty, is a line written below it,
@@ -481,49 +563,74 @@ func (t *textTable) add(row []string, after string) {
 
 // end writes the rows not yet written (and the header of an empty table).
 func (t *textTable) end() {
-	if len(t.rows) > 0 || t.widths == nil {
+	if len(t.rows) > 0 || t.vis == nil {
 		t.flush()
 	}
 }
 
 func (t *textTable) flush() {
 	w := t.w
-	first := t.widths == nil
+	total := w.st.Width - 2
+	first := t.vis == nil
 	if first {
 		t.ncol = len(t.head)
 		for _, r := range t.rows {
 			t.ncol = max(t.ncol, len(r))
 		}
-		t.widths = naturalWidths(t.ncol, t.head, t.rows)
-		natural := append([]int(nil), t.widths...)
-		if !fitWidths(t.widths, w.st.Width-2) {
+		natural := naturalWidths(t.ncol, t.head, t.rows)
+		all := make([]int, t.ncol)
+		for j := range all {
+			all[j] = j
+		}
+		t.vis = all
+		t.widths = pickWidths(natural, t.vis)
+		if !fitWidths(t.widths, total, t.wholeOf(t.vis)) && len(t.whole) > 0 {
+			// The keys do not fit whole beside the other columns: give
+			// them lines of their own.
+			t.vis = nil
+			for _, j := range all {
+				if t.whole[j] {
+					t.moved = append(t.moved, j)
+				} else {
+					t.vis = append(t.vis, j)
+				}
+			}
+			t.widths = pickWidths(natural, t.vis)
+			if !t.below {
+				total -= 2 // the rows stand indented under their keys
+			}
+		}
+		if len(t.vis) > 0 && !fitWidths(t.widths, total, t.wholeOf(t.vis)) {
 			// Too many columns even when narrowed: keep those that fit at
 			// their own width (at most 24) and end each row with a column
 			// saying how many are left out.
-			for j := range t.widths {
-				t.widths[j] = min(natural[j], 24)
+			for k, j := range t.vis {
+				t.widths[k] = min(natural[j], 24)
 			}
 			keep, used := 0, 0
-			for keep < t.ncol && used+t.widths[keep]+2+len("…+999") <= w.st.Width-2 {
+			for keep < len(t.vis) && used+t.widths[keep]+2+len("…+999") <= total {
 				used += t.widths[keep] + 2
 				keep++
 			}
-			t.keep = max(keep, 1)
-			t.more = fmt.Sprintf("…+%d", t.ncol-t.keep)
-			t.widths = append(t.widths[:t.keep], textwidth.Width(t.more))
+			keep = max(keep, 1)
+			t.more = fmt.Sprintf("…+%d", len(t.vis)-keep)
+			t.vis, t.widths, t.leftOut = t.vis[:keep], append(t.widths[:keep], textwidth.Width(t.more)), true
 		}
-	} else if t.keep == 0 {
+	} else if !t.leftOut {
+		if len(t.moved) > 0 && !t.below {
+			total -= 2
+		}
 		natural := naturalWidths(t.ncol, nil, t.rows)
-		for j := range t.widths {
-			t.widths[j] = max(t.widths[j], natural[j])
+		for k, j := range t.vis {
+			t.widths[k] = max(t.widths[k], natural[j])
 		}
-		fitWidths(t.widths, w.st.Width-2)
+		fitWidths(t.widths, total, t.wholeOf(t.vis))
 	}
 	if first {
-		t.writeRow(t.cut(t.head, true), true)
+		t.writeRow(t.head, true)
 	}
 	for i, r := range t.rows {
-		t.writeRow(t.cut(r, false), false)
+		t.writeRow(r, false)
 		if after := t.after[i]; after != "" {
 			line := strings.Repeat(" ", 2+t.widths[0]+2) + after
 			if !w.st.Color {
@@ -533,6 +640,23 @@ func (t *textTable) flush() {
 		}
 	}
 	t.rows, t.after = t.rows[:0], t.after[:0]
+}
+
+// wholeOf marks which of the columns cols are never cut.
+func (t *textTable) wholeOf(cols []int) []bool {
+	out := make([]bool, len(cols))
+	for k, j := range cols {
+		out[k] = t.whole[j]
+	}
+	return out
+}
+
+func pickWidths(natural, cols []int) []int {
+	out := make([]int, len(cols))
+	for k, j := range cols {
+		out[k] = natural[j]
+	}
+	return out
 }
 
 // naturalWidths returns the widest cell of each of n columns.
@@ -549,57 +673,90 @@ func naturalWidths(n int, head []string, rows [][]string) []int {
 	return widths
 }
 
-// cut returns the cells of a row that are shown.
-func (t *textTable) cut(r []string, head bool) []string {
-	if t.keep == 0 {
-		return r
-	}
-	c := append([]string(nil), r[:min(t.keep, len(r))]...)
-	for len(c) < t.keep {
-		c = append(c, "")
-	}
-	if head {
-		return append(c, t.more)
-	}
-	return append(c, "…")
-}
-
+// writeRow writes one line of the table, then the row's moved-out cells
+// (keys) on lines of their own, whole.
 func (t *textTable) writeRow(r []string, head bool) {
 	w := t.w
-	ncol := len(t.widths)
+	cell := func(j int) string {
+		if j < len(r) {
+			return r[j]
+		}
+		return ""
+	}
 	var b strings.Builder
 	b.WriteString("  ")
-	for j := 0; j < ncol; j++ {
-		s := ""
-		if j < len(r) {
-			s = textwidth.Truncate(r[j], t.widths[j])
+	n := len(t.widths)
+	for k := 0; k < n; k++ {
+		var s string
+		right, paint := false, ""
+		switch {
+		case k < len(t.vis):
+			j := t.vis[k]
+			s, right, paint = cell(j), t.right[j], t.paint[j]
+			if !t.whole[j] {
+				s = textwidth.Truncate(s, t.widths[k])
+			}
+		case head:
+			s = t.more
+		default:
+			s = "…"
 		}
 		pad := textwidth.PadRight
-		if t.right[j] {
+		if right {
 			pad = textwidth.PadLeft
 		}
-		if j == ncol-1 && !t.right[j] {
+		if k == n-1 && !right {
 			pad = func(s string, _ int) string { return s }
 		}
-		cell := pad(s, t.widths[j])
+		c := pad(s, t.widths[k])
 		switch {
 		case head:
-			cell = w.bold(cell)
-		case t.paint[j] != "":
-			cell = w.paint(t.paint[j], cell)
+			c = w.bold(c)
+		case paint != "":
+			c = w.paint(paint, c)
 		}
-		b.WriteString(cell)
-		if j < ncol-1 {
+		b.WriteString(c)
+		if k < n-1 {
 			b.WriteString("  ")
 		}
 	}
-	w.line(strings.TrimRight(b.String(), " "))
+	var moved []string
+	if !head {
+		for _, j := range t.moved {
+			s := cell(j)
+			if s == "" {
+				continue
+			}
+			name := t.head[j]
+			if l, ok := t.label[j]; ok {
+				name = l
+			}
+			moved = append(moved, name+": "+w.paint(t.paint[j], s))
+		}
+	}
+	// A moved cell is written on one line however long: a key is never
+	// cut, nor broken.
+	if !t.below && len(moved) > 0 {
+		w.line("  " + strings.Join(moved, "  "))
+	}
+	if n > 0 {
+		prefix := ""
+		if !t.below && len(t.moved) > 0 && !head {
+			prefix = "  " // the row's cells stand under its key
+		}
+		w.line(prefix + strings.TrimRight(b.String(), " "))
+	}
+	if t.below {
+		for _, m := range moved {
+			w.line("    " + m)
+		}
+	}
 }
 
-// fitWidths narrows the widest columns until the columns, two spaces
-// apart, fit in total; no column goes below 6 unless it already was. It
-// reports whether they fit.
-func fitWidths(widths []int, total int) bool {
+// fitWidths narrows the widest columns that may be cut (whole[k] false)
+// until the columns, two spaces apart, fit in total; no column goes below
+// 6 unless it already was. It reports whether they fit.
+func fitWidths(widths []int, total int, whole []bool) bool {
 	sum := func() int {
 		n := 0
 		for _, x := range widths {
@@ -608,13 +765,13 @@ func fitWidths(widths []int, total int) bool {
 		return n + 2*(len(widths)-1)
 	}
 	for sum() > total {
-		wi := 0
-		for j, x := range widths {
-			if x > widths[wi] {
-				wi = j
+		wi := -1
+		for k, x := range widths {
+			if (whole == nil || k >= len(whole) || !whole[k]) && (wi < 0 || x > widths[wi]) {
+				wi = k
 			}
 		}
-		if widths[wi] <= 6 {
+		if wi < 0 || widths[wi] <= 6 {
 			return false
 		}
 		widths[wi]--

@@ -133,7 +133,7 @@ func ExampleJSONDiff() {
 	out, _ := golden.JSONDiff(want, got)
 	fmt.Print(out)
 	// Output:
-	// 3 difference(s):
+	// 3 differences:
 	// $.houses[0].tmax: got 21.5 want 21.25
 	// $.houses[2]: added: {"name":"Ruche","tmax":18}
 	// $.note: removed: "dry week"
@@ -144,7 +144,7 @@ func ExampleTextDiff() {
 	got := "Étang: tmax 21.5\nLes Pins: tmax 19\n"
 	fmt.Print(golden.TextDiff(want, got))
 	// Output:
-	// 1 line(s) only in want (-), 1 only in got (+):
+	// 1 line only in want (-), 1 line only in got (+):
 	// want lines 1-2, got lines 1-2:
 	// 1   -  Étang: tmax 21.25
 	//   1 +  Étang: tmax 21.5

@@ -258,9 +258,9 @@ func JSONDiff(want, got []byte) (string, error) {
 	}
 	n := len(lines)
 	if n > jsonDiffMaxLines {
-		lines = append(lines[:jsonDiffMaxLines], fmt.Sprintf("… %d more difference(s) not shown", n-jsonDiffMaxLines))
+		lines = append(lines[:jsonDiffMaxLines], "… "+plural(n-jsonDiffMaxLines, "more difference", "more differences")+" not shown")
 	}
-	return fmt.Sprintf("%d difference(s):\n%s\n", n, strings.Join(lines, "\n")), nil
+	return fmt.Sprintf("%s:\n%s\n", plural(n, "difference", "differences"), strings.Join(lines, "\n")), nil
 }
 
 // jsonLines collects the differences of two JSON documents, one line

@@ -246,7 +246,7 @@ func sweep(w io.Writer, code int, what string, m mode, partial string, roots []s
 		}
 	}
 	if found > 0 && what == "check" {
-		fmt.Fprintf(w, "golden: %d stale golden file(s); remove them with %s=prune after a full run\n", found, EnvStale)
+		fmt.Fprintf(w, "golden: %s; remove them with %s=prune after a full run\n", plural(found, "stale golden file", "stale golden files"), EnvStale)
 		return max(code, 1)
 	}
 	return code

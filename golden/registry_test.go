@@ -141,7 +141,7 @@ func TestSweep(t *testing.T) {
 	}{
 		{"off", "", 0, mode{}, "", 0, "", false},
 		{"list", "list", 0, mode{}, "", 0, "golden: stale ", false},
-		{"check fails", "check", 0, mode{}, "", 1, "1 stale golden file(s)", false},
+		{"check fails", "check", 0, mode{}, "", 1, "1 stale golden file;", false},
 		{"bad value", "tidy", 0, mode{}, "", 2, "want list, check or prune", false},
 		{"partial run", "prune", 0, mode{}, "-run", 0, "stale check skipped: -run", false},
 		{"failed run", "prune", 1, mode{}, "", 1, "prune skipped", false},

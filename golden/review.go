@@ -380,7 +380,7 @@ func reviewLines(old, cur string) (lines []ReviewLine, added, removed int) {
 	for _, h := range hunks(changed, len(ops)) {
 		from, to := h[0], h[1]
 		if from > last+1 {
-			lines = append(lines, ReviewLine{Mark: '…', Text: fmt.Sprintf("%d unchanged line(s)", from-last-1)})
+			lines = append(lines, ReviewLine{Mark: '…', Text: plural(from-last-1, "unchanged line", "unchanged lines")})
 		}
 		for k := from; k <= to; k++ {
 			if len(lines) >= reviewMaxLines {
@@ -393,7 +393,7 @@ func reviewLines(old, cur string) (lines []ReviewLine, added, removed int) {
 		last = to
 	}
 	if last >= 0 && last < len(ops)-1 {
-		lines = append(lines, ReviewLine{Mark: '…', Text: fmt.Sprintf("%d unchanged line(s)", len(ops)-1-last)})
+		lines = append(lines, ReviewLine{Mark: '…', Text: plural(len(ops)-1-last, "unchanged line", "unchanged lines")})
 	}
 	return lines, added, removed
 }

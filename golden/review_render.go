@@ -28,7 +28,7 @@ func (r *Review) title() string {
 }
 
 // Summary says in a few words what changed in the file: "3 differing
-// cells in 2 rows, 1 extra row; largest Δabs 0.5 (tmax)", "+2 −1 lines",
+// cells in 2 rows, 1 extra row; max abs. diff 0.5 (tmax)", "+2 −1 lines",
 // "new table, 120 rows × 5 columns".
 func (f FileReview) Summary() string {
 	if len(f.Problems) > 0 {
@@ -88,8 +88,8 @@ func tableSummary(f *FileReview) string {
 	if d.CellsDiffering > 0 {
 		parts = append(parts, plural(d.CellsDiffering, "differing cell", "differing cells")+" in "+plural(d.RowsDiffering, "row", "rows"))
 	}
-	add(d.Missing.Count, "removed row", "removed rows")
-	add(d.Extra.Count, "added row", "added rows")
+	add(d.Missing.Count, "missing row", "missing rows")
+	add(d.Extra.Count, "extra row", "extra rows")
 	add(d.Duplicates.WantKeys+d.Duplicates.GotKeys, "repeated key", "repeated keys")
 	if !slices.Equal(f.OldKeys, f.NewKeys) && f.OldRows >= 0 && f.NewRows >= 0 {
 		parts = append(parts, "keys "+keyList(f.OldKeys)+" → "+keyList(f.NewKeys))
@@ -102,7 +102,7 @@ func tableSummary(f *FileReview) string {
 		s = "equal within tolerance"
 	}
 	if c, ok := largestDelta(d); ok {
-		s += fmt.Sprintf("; largest Δabs %s (%s)", formatDelta(c.MaxAbs), c.Name)
+		s += fmt.Sprintf("; max abs. diff %s (%s)", formatDelta(c.MaxAbs), c.Name)
 	}
 	return s
 }
@@ -259,7 +259,7 @@ func mdSection(f *FileReview) string {
 				p("| %s |\n", mdJoin(row))
 			}
 			if f.NewRows+f.OldRows+1 > len(f.Preview) {
-				p("\n_First %d rows shown._\n", len(f.Preview))
+				p("\n_First %s shown._\n", plural(len(f.Preview), "row", "rows"))
 			}
 		} else {
 			var lines []string
@@ -398,6 +398,7 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 			b.WriteString(indent(textwidth.Truncate("compared under: "+f.Rules.String(), st.Width-2)) + "\n")
 		}
 		var body string
+		fitted := false
 		switch {
 		case len(f.Problems) > 0:
 			body = strings.Join(f.Problems, "\n")
@@ -405,6 +406,7 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 			sub := st
 			sub.Width = st.Width - 2
 			body = f.Diff.TextWith(sub)
+			fitted = true // already fits, and its keys must not be cut
 		case len(f.Lines) > 0:
 			body = reviewLinesText(f.Lines)
 		case len(f.Paths) > 0:
@@ -427,7 +429,7 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 		if body != "" {
 			var lines []string
 			for _, l := range strings.Split(strings.TrimRight(body, "\n"), "\n") {
-				if !st.Color {
+				if !st.Color && !fitted {
 					l = textwidth.Truncate(l, st.Width-2)
 				}
 				lines = append(lines, l)

@@ -51,14 +51,14 @@ func TestReviewChange(t *testing.T) {
 			require.Equal(t, assert.MatchByKey, f.Diff.Match)
 			require.Equal(t, 3, f.OldRows)
 			require.Equal(t, 3, f.NewRows)
-		}, "1 differing cell in 1 row; largest Δabs 0.5 (tmax)", 0},
+		}, "1 differing cell in 1 row; max abs. diff 0.5 (tmax)", 0},
 		{"float noise without a tolerance", change("d/daily.gold.tbl", reviewOld, noise), nil, ReviewChanged, nil, "", 0},
-		{"float noise within a tolerance", change("d/daily.gold.tbl", reviewOld, noise), []assert.Option{assert.Tol("*", 0, 1e-12)}, ReviewUnchanged, nil, "equal within tolerance; largest Δabs 3.55e-15 (tmax)", 0},
+		{"float noise within a tolerance", change("d/daily.gold.tbl", reviewOld, noise), []assert.Option{assert.Tol("*", 0, 1e-12)}, ReviewUnchanged, nil, "equal within tolerance; max abs. diff 3.55e-15 (tmax)", 0},
 		{"rows reordered under a key", change("d/daily.gold.tbl", reviewOld, reordered), nil, ReviewUnchanged, nil, "equal within tolerance", 0},
 		{"a row added", change("d/daily.gold.tbl", reviewOld, rowAdded), nil, ReviewChanged, func(t *testing.T, f FileReview) {
 			require.Equal(t, 1, f.Diff.Extra.Count)
 			require.Equal(t, "3 → 4", f.Rows())
-		}, "1 added row", 0},
+		}, "1 extra row", 0},
 		{"key columns changed", change("d/daily.gold.tbl", reviewOld, keysDrift), nil, ReviewUnchanged, func(t *testing.T, f FileReview) {
 			require.Equal(t, []string{"house", "day"}, f.OldKeys)
 			require.Equal(t, []string{"house"}, f.NewKeys)
@@ -81,7 +81,7 @@ func TestReviewChange(t *testing.T) {
 			// Changes 6 lines apart form one group; three lines of context
 			// before it, the line above them elided.
 			require.Equal(t, "…   -+     +", marks.String())
-			require.Equal(t, ReviewLine{Mark: '…', Text: "1 unchanged line(s)"}, f.Lines[0])
+			require.Equal(t, ReviewLine{Mark: '…', Text: "1 unchanged line"}, f.Lines[0])
 			require.Equal(t, ReviewLine{Mark: '-', Old: 5, Text: "e"}, f.Lines[4])
 			require.Equal(t, ReviewLine{Mark: '+', New: 5, Text: "E"}, f.Lines[5])
 			require.Equal(t, ReviewLine{Mark: '+', New: 11, Text: "k"}, f.Lines[len(f.Lines)-1])
@@ -143,7 +143,7 @@ func TestReviewHeadlineAndCounts(t *testing.T) {
 func TestReviewMarkdown(t *testing.T) {
 	md := sampleReview(t).Markdown()
 	require.True(t, strings.HasPrefix(md, "## Golden file review\n\n**3 golden files differ: 1 changed, 1 new, 1 removed; 1 unchanged within tolerance** — against `HEAD (abc1234)`\n"), md)
-	require.Contains(t, md, "| `a/daily.gold.tbl` | **changed** | table | 3 | 1 differing cell in 1 row; largest Δabs 0.5 (tmax) |")
+	require.Contains(t, md, "| `a/daily.gold.tbl` | **changed** | table | 3 | 1 differing cell in 1 row; max abs. diff 0.5 (tmax) |")
 	require.Contains(t, md, "| `d/same.gold.tbl` | unchanged within tolerance | table | 3 | equal within tolerance |")
 	require.Contains(t, md, "### `a/daily.gold.tbl` — changed")
 	require.Contains(t, md, "| `Étang` | `2026-04-01` | `tmax` | `21.5` | `22` |", "the changed cell with its keys")
@@ -175,6 +175,24 @@ func TestReviewText(t *testing.T) {
 	require.Contains(t, text, "  tables differ: 1 differing cell in 1 row")
 	require.NotContains(t, text, "\x1b[")
 	require.Contains(t, sampleReview(t).TextWith(assert.TextStyle{Color: true}), "\x1b[1m")
+}
+
+// TestReviewKeepsKeysWhole checks that the review's text, 100 columns
+// wide, never cuts a key of a changed table.
+func TestReviewKeepsKeysWhole(t *testing.T) {
+	house := "Château-Rouge-sur-la-Colline-des-Trois-Moulins-du-Haut"
+	bay := "travée nord numéro douze du bâtiment historique"
+	head := "# proofsheet sheet v1\n# keys: house, bay\n# rows: 1\nhouse:string | bay:string | tmax:float64 | note:string\n"
+	note := strings.Repeat("a note that may be shortened ", 4)
+	oldT := head + house + " | " + bay + " | 21.5 | " + note + "\n"
+	newT := head + house + " | " + bay + " | 22.5 | " + note + "!\n"
+	rv := &Review{Files: []FileReview{ReviewChange(change("a/long.gold.tbl", oldT, newT))}}
+	text := rv.TextWith(assert.TextStyle{Width: 100})
+	require.Contains(t, text, house)
+	require.Contains(t, text, bay)
+	require.Contains(t, text, "("+house+", "+bay+")")
+	require.Contains(t, rv.Markdown(), house)
+	require.Contains(t, rv.HTML(), house)
 }
 
 func TestReviewJSON(t *testing.T) {
@@ -293,7 +311,7 @@ func ExampleReviewChange() {
 	fmt.Println(c.Row.Key, c.Column, c.Want.Text, "→", c.Got.Text)
 	// Output:
 	// 1 golden file differs: 1 changed
-	// changed | 1 differing cell in 1 row; largest Δabs 0.5 (tmax)
+	// changed | 1 differing cell in 1 row; max abs. diff 0.5 (tmax)
 	// [Étang] tmax 21.5 → 22
 }
 
@@ -341,7 +359,7 @@ func TestReviewUnderStoredRules(t *testing.T) {
 	f := ReviewChange(change("d/daily.gold.tbl", enc(tb, tight...), enc(noisy, tight...)))
 	require.Equal(t, ReviewUnchanged, f.Status)
 	require.Equal(t, "rows by key house, day; tmax=abs:1e-09", f.Rules.String())
-	require.Equal(t, "abs 1e-09", f.Diff.Columns[0+2].Rule, "%+v", f.Diff.Columns)
+	require.Equal(t, "abs. diff ≤ 1e-09", f.Diff.Columns[0+2].Rule, "%+v", f.Diff.Columns)
 	require.Empty(t, f.RulesChange)
 
 	// A tolerance widened in the same change: changed, whatever the data,
@@ -350,7 +368,7 @@ func TestReviewUnderStoredRules(t *testing.T) {
 	f = ReviewChange(change("d/daily.gold.tbl", enc(tb, tight...), enc(noisy, wide...)))
 	require.Equal(t, ReviewChanged, f.Status)
 	require.Equal(t, "stored rules changed: tmax=abs:1e-09 → tmax=abs:0.5", f.RulesChange)
-	require.Equal(t, "stored rules changed; largest Δabs 3.55e-15 (tmax)", f.Summary())
+	require.Equal(t, "stored rules changed; max abs. diff 3.55e-15 (tmax)", f.Summary())
 	rv := &Review{Files: []FileReview{f}}
 	md := rv.Markdown()
 	require.Contains(t, md, "Stored rules changed: tmax=abs:1e-09 → tmax=abs:0.5.")

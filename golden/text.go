@@ -112,7 +112,7 @@ func TextDiff(want, got string) string {
 	}
 	wa, wb := len(strconv.Itoa(maxA)), len(strconv.Itoa(maxB))
 	var sb strings.Builder
-	fmt.Fprintf(&sb, "%d line(s) only in want (-), %d only in got (+):\n", dels, ins)
+	fmt.Fprintf(&sb, "%s only in want (-), %s only in got (+):\n", plural(dels, "line", "lines"), plural(ins, "line", "lines"))
 	listed := 0
 	for _, h := range hunks(changed, len(ops)) {
 		from, to := h[0], h[1]
@@ -125,7 +125,7 @@ func TextDiff(want, got string) string {
 						rest++
 					}
 				}
-				fmt.Fprintf(&sb, "… %d more changed line(s) not shown\n", rest)
+				fmt.Fprintf(&sb, "… %s not shown\n", plural(rest, "more changed line", "more changed lines"))
 				return sb.String()
 			}
 			op := ops[k]

@@ -45,7 +45,7 @@ func TestEditScriptMyersExample(t *testing.T) {
 	lines := func(s string) string { return strings.Join(strings.Split(s, ""), "\n") + "\n" }
 	ld, li := editDistance(lineDiffs(lines(a), lines(b)))
 	require.Equal(t, 5, ld/2+li/2) // each line is a letter and its newline
-	require.True(t, strings.HasPrefix(TextDiff(lines(a), lines(b)), "3 line(s) only in want (-), 2 only in got (+):\n"))
+	require.True(t, strings.HasPrefix(TextDiff(lines(a), lines(b)), "3 lines only in want (-), 2 lines only in got (+):\n"))
 }
 
 // lcs is the textbook dynamic programme for the length of a longest common
@@ -92,7 +92,7 @@ func TestTextDiffLayout(t *testing.T) {
 	want := "house: Étang\nday: 2026-04-01\ntmax: 21.25\ntmin: 8\nkept: 140\ndropped: 2\nnote: ok\n"
 	got := "house: Étang\nday: 2026-04-01\ntmax: 21.5\ntmin: 8\nkept: 140\ndropped: 2\nnote: ok\nsource: upload 3\n"
 	require.Equal(t, ""+
-		"1 line(s) only in want (-), 2 only in got (+):\n"+
+		"1 line only in want (-), 2 lines only in got (+):\n"+
 		"want lines 1-7, got lines 1-8:\n"+
 		"1 1    house: Étang\n"+
 		"2 2    day: 2026-04-01\n"+
@@ -143,7 +143,7 @@ func TestTextDiffLimit(t *testing.T) {
 		g.WriteString("g" + strings.Repeat("x", i%7) + "\n")
 	}
 	out := TextDiff(w.String(), g.String())
-	require.Contains(t, out, "more changed line(s) not shown")
+	require.Contains(t, out, "more changed lines not shown")
 	require.LessOrEqual(t, strings.Count(out, "\n"), textDiffMaxLines+3)
 }
 

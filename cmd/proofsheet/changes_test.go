@@ -126,7 +126,7 @@ func TestChangesAgainstGit(t *testing.T) {
 	r = runBin(t, repo, noEnv, "changes", "--tol", "*=rel:1e-12")
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.True(t, strings.HasPrefix(r.stdout, "## Golden file review\n\n**5 golden files differ: 3 changed, 1 new, 1 removed; 1 unchanged within tolerance** — against `HEAD ("), r.stdout)
-	require.Contains(t, r.stdout, "| `report/testdata/daily/house.gold.tbl` | **changed** | table | 3 | 2 differing cells in 1 row; largest Δabs 1 (kept) |")
+	require.Contains(t, r.stdout, "| `report/testdata/daily/house.gold.tbl` | **changed** | table | 3 | 2 differing cells in 1 row; max abs. diff 1 (kept) |")
 	require.Contains(t, r.stdout, "| `Étang` | `2026-04-01` | `tmax` | `21.5` | `22` |")
 	require.Contains(t, r.stdout, "$.gdd[\"Étang\"]: before 120.5, after 121")
 

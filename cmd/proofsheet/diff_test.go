@@ -138,11 +138,11 @@ func TestDiffOptions(t *testing.T) {
 		{"noise within a relative tolerance", []string{"--tol", "tmax=rel:1e-12", f("want.csv"), f("noise.csv")}, exitSame, "tables are equal"},
 		{"noise within an absolute tolerance for every float", []string{"--tol", "*=abs:1e-9", f("want.csv"), f("noise.csv")}, exitSame, "tables are equal"},
 		{"noise within ULPs", []string{"--tol", "tmax=ulp:1", f("want.csv"), f("noise.csv")}, exitSame, "tables are equal"},
-		{"tolerance too small", []string{"--tol", "tmax=abs:1e-18", f("want.csv"), f("noise.csv")}, exitDiffers, "abs 1e-18"},
+		{"tolerance too small", []string{"--tol", "tmax=abs:1e-18", f("want.csv"), f("noise.csv")}, exitDiffers, "abs. diff ≤ 1e-18"},
 		{"row order by position", []string{f("want.csv"), f("shuffled.csv")}, exitDiffers, "differing cells"},
 		{"any row order", []string{"--any-row-order", f("want.csv"), f("shuffled.csv")}, exitSame, "rows matched in any order"},
 		{"by key", []string{"--key", "house, day", f("want.csv"), f("shuffled.csv")}, exitSame, "rows matched by key (house, day)"},
-		{"an extra column", []string{f("want.csv"), f("extra.csv")}, exitDiffers, "only in got"},
+		{"an extra column", []string{f("want.csv"), f("extra.csv")}, exitDiffers, "extra in got"},
 		{"an ignored column", []string{"--ignore", "note", f("want.csv"), f("extra.csv")}, exitSame, "tables are equal"},
 		{"a type change", []string{f("want.csv"), f("floats.csv")}, exitDiffers, "type changed"},
 		{"loose types", []string{"--loose-types", f("want.csv"), f("floats.csv")}, exitSame, "tables are equal"},
@@ -297,4 +297,23 @@ func TestDiffBadInput(t *testing.T) {
 			require.Equal(t, "earlier report\n", string(data), "--out is untouched on failure")
 		})
 	}
+}
+
+// TestDiffKeepsKeysWhole checks that the command line's text report,
+// 100 columns wide, shows every key whole and shortens other cells.
+func TestDiffKeepsKeysWhole(t *testing.T) {
+	house := "Château-Rouge-sur-la-Colline-des-Trois-Moulins"
+	bay := "travée nord numéro douze du bâtiment historique"
+	note := strings.Repeat("a long note that may be shortened ", 4)
+	dir := writeFiles(t, map[string]string{
+		"want.csv": "house,bay,day,tmax,note\n" + house + "," + bay + ",2026-04-01,21.5," + note + "\n" + house + "," + bay + ",2026-04-02,20," + note + "\n",
+		"got.csv":  "house,bay,day,tmax,note\n" + house + "," + bay + ",2026-04-01,22.5," + note + "!\n" + house + "," + bay + ",2026-04-03,20," + note + "\n",
+	})
+	r := runBin(t, "", nil, "diff", "--key", "house,bay,day", filepath.Join(dir, "want.csv"), filepath.Join(dir, "got.csv"))
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	for _, k := range []string{house, bay, "2026-04-01", "2026-04-02", "2026-04-03"} {
+		require.Contains(t, r.stdout, k)
+	}
+	require.Contains(t, r.stdout, "("+house+", "+bay+", 2026-04-01)", "the column summary names the whole key")
+	require.NotContains(t, r.stdout, note+"!", "the note, not a key, is shortened")
 }
