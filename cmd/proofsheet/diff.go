@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -52,6 +53,7 @@ Options:
   --junit FILE       also write a JUnit XML report to FILE: one test case,
                      failed with the text diff when the tables differ
   --quiet            draw no progress bar
+` + engineHelp + `
 
 When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown
 report is appended to it. The JSON has a "schema_version" field.
@@ -63,6 +65,10 @@ Example:
       want/daily.parquet got/daily.csv
   proofsheet diff --any-row-order --format markdown --out diff.md \
       want.csv got.csv
+  proofsheet diff --engine duckdb --memory-limit 300MB --key house,at \
+      --tol 'temp_c=abs:1e-9' 'want/readings-*.parquet' got/readings.csv
+  proofsheet diff --engine postgres://ci@127.0.0.1:5432/warehouse \
+      --key house,day greenhouse.daily_expected 'sql:SELECT * FROM daily'
 
 Exit status: 0 when the tables are equal, 1 when they differ, 2 on
 trouble (a file that cannot be read, a bad option).
@@ -89,6 +95,10 @@ func runDiff(e *env, c *command, args []string) int {
 	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
 	junit := fs.String("junit", "", "")
 	quiet := fs.Bool("quiet", false, "")
+	var ef engineFlags
+	fs.StringVar(&ef.engine, "engine", "", "")
+	fs.StringVar(&ef.memoryLimit, "memory-limit", "", "")
+	fs.StringVar(&ef.tempDir, "temp-dir", "", "")
 	files, status, ok := parseFlags(e, c, fs, args)
 	if !ok {
 		return status
@@ -111,6 +121,12 @@ func runDiff(e *env, c *command, args []string) int {
 	}
 	if len(files) != 2 {
 		return trouble(e, c, "want two files, WANT and GOT, got %d\n\n%s", len(files), c.usage)
+	}
+	if ef.engine == "" && (ef.memoryLimit != "" || ef.tempDir != "") {
+		return trouble(e, c, "--memory-limit and --temp-dir are for --engine duckdb")
+	}
+	if ef.engine != "" && *asText {
+		return trouble(e, c, "--as-text reads files in memory; with --engine the engine reads them: cast the columns in a sql: query instead")
 	}
 	if !reportFormats[*format] {
 		return trouble(e, c, "--format %q: unknown format (want text, markdown, json or html)", *format)
@@ -142,40 +158,60 @@ func runDiff(e *env, c *command, args []string) int {
 	if err := checkOut(*out); err != nil {
 		return trouble(e, c, "%v", err)
 	}
-	var readOpts []fixtures.ReadOption
-	if *asText {
-		readOpts = append(readOpts, fixtures.AllText())
-	}
-
-	bar := newProgress(e, *quiet)
-	want, err := readTable(bar, files[0], readOpts...)
-	if err != nil {
-		bar.finish()
-		return fail("%v", err)
-	}
-	got, err := readTable(bar, files[1], readOpts...)
-	if err != nil {
-		bar.finish()
-		return fail("%v", err)
-	}
-	// An option naming a column neither file has is a mistake in the
-	// command line, not a difference between the files.
+	// An option naming a column neither table has is a mistake in the
+	// command line, not a difference between the tables.
 	named := append(splitList(*keys), splitList(*ignore)...)
 	for _, spec := range tols {
 		named = append(named, tolColumn(spec))
 	}
-	for _, col := range named {
-		if col != assert.AllColumns && want.Column(col) == nil && got.Column(col) == nil {
-			bar.finish()
-			return fail("no column %q in either file%s (want: %s; got: %s)", col,
-				didYouMean(col, append(want.Names(), got.Names()...)), strings.Join(want.Names(), ", "), strings.Join(got.Names(), ", "))
+	what := "file"
+	if ef.engine != "" {
+		what = "table"
+	}
+	unknown := func(wantNames, gotNames []string) (string, bool) {
+		for _, col := range named {
+			if col != assert.AllColumns && !slices.Contains(wantNames, col) && !slices.Contains(gotNames, col) {
+				return fmt.Sprintf("no column %q in either %s%s (want: %s; got: %s)", col, what,
+					didYouMean(col, append(slices.Clone(wantNames), gotNames...)), strings.Join(wantNames, ", "), strings.Join(gotNames, ", ")), true
+			}
 		}
+		return "", false
 	}
-	if want.NumRows()+got.NumRows() >= 100_000 {
-		bar.start("comparing "+strconv.Itoa(want.NumRows())+" and "+strconv.Itoa(got.NumRows())+" rows …", 0)
+	bar := newProgress(e, *quiet)
+	var d *assert.Diff
+	if ef.engine != "" {
+		d, err = engineDiff(ef, bar, files[0], files[1], opts)
+		if err != nil {
+			return fail("%v", err)
+		}
+		if msg, bad := unknown(d.WantColumns, d.GotColumns); bad {
+			return fail("%s", msg)
+		}
+	} else {
+		var readOpts []fixtures.ReadOption
+		if *asText {
+			readOpts = append(readOpts, fixtures.AllText())
+		}
+		want, err := readTable(bar, files[0], readOpts...)
+		if err != nil {
+			bar.finish()
+			return fail("%v", err)
+		}
+		got, err := readTable(bar, files[1], readOpts...)
+		if err != nil {
+			bar.finish()
+			return fail("%v", err)
+		}
+		if msg, bad := unknown(want.Names(), got.Names()); bad {
+			bar.finish()
+			return fail("%s", msg)
+		}
+		if want.NumRows()+got.NumRows() >= 100_000 {
+			bar.start("comparing "+strconv.Itoa(want.NumRows())+" and "+strconv.Itoa(got.NumRows())+" rows …", 0)
+		}
+		d = assert.Compare(want, got, opts...)
+		bar.finish()
 	}
-	d := assert.Compare(want, got, opts...)
-	bar.finish()
 
 	// The report is written as it is made: with --max-cells -1 it may list
 	// millions of cells, which the Diff builds one at a time.
