@@ -37,8 +37,11 @@ type colCmp struct {
 	rule   floatRule     // float classes
 	tt     time.Duration // time classes, when hasTT
 	hasTT  bool
-	norm   TextNorm // text class
-	nanNul bool     // NaN equals null (float classes)
+	// ttUnits is tt in whole units of a date or same-unit timestamp
+	// column: |Δ| ≤ tt exactly when the difference in units is ≤ ttUnits.
+	ttUnits uint64
+	norm    TextNorm // text class
+	nanNul  bool     // NaN equals null (float classes)
 	// intOnWant says which side holds the int64 in classIntFloat, and the
 	// date in classDateTime.
 	intOnWant bool
@@ -81,6 +84,9 @@ func newColCmp(cfg *config, wc, gc *fixtures.Column) *colCmp {
 		cc.nanNul = cfg.nanIsNull
 	case classDate, classTime, classDateTime:
 		cc.tt, cc.hasTT = cfg.timeTolFor(cc.name)
+		if cc.hasTT && (cc.class == classDate || cc.sameUnit()) {
+			cc.ttUnits = uint64(cc.tt) / uint64(unitNanos(wc))
+		}
 	case classText:
 		cc.norm = cfg.normFor(cc.name)
 	}
@@ -209,12 +215,15 @@ func (cc *colCmp) eq(wi, gi int) bool {
 	case classIntFloat:
 		iv, fv := cc.intFloat(wi, gi)
 		if fv == math.Trunc(fv) && fv >= -(1<<63) && fv < 1<<63 && int64(fv) == iv {
-			return true
+			return true // the same value exactly
+		}
+		if math.IsNaN(fv) || !(cc.rule.hasTol || cc.rule.hasULP) {
+			return false // exact by value; float64(iv) may round to fv
 		}
 		if cc.intOnWant {
-			return floatEqual(float64(iv), fv, cc.rule) && !math.IsNaN(fv)
+			return floatEqual(float64(iv), fv, cc.rule)
 		}
-		return floatEqual(fv, float64(iv), cc.rule) && !math.IsNaN(fv)
+		return floatEqual(fv, float64(iv), cc.rule)
 	case classDecimal:
 		return w.Decimal(wi).Cmp(g.Decimal(gi)) == 0
 	case classText:
@@ -222,27 +231,66 @@ func (cc *colCmp) eq(wi, gi int) bool {
 		return a == b || (cc.norm != 0 && normalize(a, cc.norm) == normalize(b, cc.norm))
 	case classDate:
 		a, b := w.Days(wi), g.Days(gi)
-		if a == b {
-			return true
-		}
-		return cc.hasTT && absDays(a, b) <= cc.tt.Hours()/24
+		return a == b || (cc.hasTT && absDiff(int64(a), int64(b)) <= cc.ttUnits)
 	case classTime:
-		if w.Type().Unit() == g.Type().Unit() && w.Ticks(wi) == g.Ticks(gi) {
-			return true
+		if cc.sameUnit() {
+			a, b := w.Ticks(wi), g.Ticks(gi)
+			return a == b || (cc.hasTT && absDiff(a, b) <= cc.ttUnits)
 		}
-		a, b := w.Time(wi), g.Time(gi)
-		if a.Equal(b) {
-			return true
-		}
-		return cc.hasTT && absSeconds(a, b) <= cc.tt.Seconds()
+		return cc.timesEqual(w.Time(wi), g.Time(gi))
 	case classDateTime:
-		a, b := cc.dateTime(wi, gi)
-		if a.Equal(b) {
-			return true
-		}
-		return cc.hasTT && absSeconds(a, b) <= cc.tt.Seconds()
+		return cc.timesEqual(cc.dateTime(wi, gi))
 	}
 	return false
+}
+
+// sameUnit reports whether the timestamps of a classTime pair count in
+// the same unit, so that their ticks compare directly.
+func (cc *colCmp) sameUnit() bool { return cc.wc.Type().Unit() == cc.gc.Type().Unit() }
+
+// timesEqual compares two instants: the same, or within TimeTol exactly.
+func (cc *colCmp) timesEqual(a, b time.Time) bool {
+	if a.Equal(b) {
+		return true
+	}
+	return cc.hasTT && instantDiff(a, b).Cmp(big.NewInt(int64(cc.tt))) <= 0
+}
+
+// absDiff returns |a − b| exactly, as a uint64.
+func absDiff(a, b int64) uint64 {
+	if a >= b {
+		return uint64(a) - uint64(b)
+	}
+	return uint64(b) - uint64(a)
+}
+
+// instantDiff returns |a − b| in nanoseconds, exactly.
+func instantDiff(a, b time.Time) *big.Int {
+	s := new(big.Int).Sub(big.NewInt(a.Unix()), big.NewInt(b.Unix()))
+	s.Mul(s, big.NewInt(1e9))
+	s.Add(s, big.NewInt(int64(a.Nanosecond()-b.Nanosecond())))
+	return s.Abs(s)
+}
+
+// unitNanos is how many nanoseconds a unit of a date or timestamp column
+// is: a day, or the timestamp's unit.
+func unitNanos(col *fixtures.Column) int64 {
+	if col.Kind() == fixtures.KindDate {
+		return 86400e9
+	}
+	return int64(col.Type().Unit().Duration())
+}
+
+// timeDelta is the distance of two times in seconds: |a − b| counted in
+// the finer unit of the two columns, as a float64, divided by that unit's
+// count per second (a day counts as 86400 s).
+func (cc *colCmp) timeDelta(a, b time.Time) Delta {
+	u := min(unitNanos(cc.wc), unitNanos(cc.gc))
+	units, _ := new(big.Float).SetInt(new(big.Int).Quo(instantDiff(a, b), big.NewInt(u))).Float64()
+	if u == 86400e9 {
+		return Delta{Has: true, Abs: units * 86400}
+	}
+	return Delta{Has: true, Abs: units / float64(1e9/u)}
 }
 
 // intFloat returns the int64 and float64 cells of a classIntFloat pair.
@@ -266,16 +314,6 @@ func (cc *colCmp) dateTime(wi, gi int) (time.Time, time.Time) {
 
 func midnight(day time.Time, loc *time.Location) time.Time {
 	return time.Date(day.Year(), day.Month(), day.Day(), 0, 0, 0, 0, loc)
-}
-
-func absDays(a, b int32) float64 {
-	return math.Abs(float64(a) - float64(b))
-}
-
-// absSeconds returns |a − b| in seconds without the saturation of
-// time.Time.Sub.
-func absSeconds(a, b time.Time) float64 {
-	return math.Abs(float64(a.Unix()-b.Unix()) + float64(a.Nanosecond()-b.Nanosecond())/1e9)
 }
 
 // delta returns the distance of cell wi of want and cell gi of got.
@@ -313,12 +351,14 @@ func (cc *colCmp) delta(wi, gi int) Delta {
 		}
 		return Delta{Has: true, Abs: abs, Rel: abs / math.Max(math.Abs(a.Float64()), math.Abs(b.Float64()))}
 	case classDate:
-		return Delta{Has: true, Abs: absDays(w.Days(wi), g.Days(gi)) * 86400}
+		return Delta{Has: true, Abs: float64(absDiff(int64(w.Days(wi)), int64(g.Days(gi)))) * 86400}
 	case classTime:
-		return Delta{Has: true, Abs: absSeconds(w.Time(wi), g.Time(gi))}
+		if cc.sameUnit() {
+			return Delta{Has: true, Abs: float64(absDiff(w.Ticks(wi), g.Ticks(gi))) / float64(1e9/unitNanos(w))}
+		}
+		return cc.timeDelta(w.Time(wi), g.Time(gi))
 	case classDateTime:
-		a, b := cc.dateTime(wi, gi)
-		return Delta{Has: true, Abs: absSeconds(a, b)}
+		return cc.timeDelta(cc.dateTime(wi, gi))
 	}
 	return Delta{}
 }

@@ -217,7 +217,11 @@ type CellDiff struct {
 	Got    Cell
 	// Delta holds the differences of numeric and time cells when both are
 	// non-null: Abs = |want − got| and Rel = Abs / max(|want|, |got|) for
-	// numbers (dates and timestamps: Abs in seconds, Rel 0).
+	// numbers (computed in float64; int64 and decimal differences exactly
+	// first, then rounded). For dates and timestamps Abs is in seconds —
+	// the exact difference counted in the finer unit of the two columns
+	// (days for two date columns), as a float64, divided by that unit's
+	// count per second (86400 a day's) — and Rel is 0.
 	Delta Delta
 }
 
@@ -248,8 +252,11 @@ type ColumnSummary struct {
 	Differing int
 	// MaxAbs and MaxRel are the largest deltas over all paired cells, equal
 	// or not, so they show how close a tolerance is to biting. HasDelta says
-	// the column has deltas at all (numbers and times); the At fields name
-	// the first row where each maximum occurs.
+	// the column has deltas at all (numbers and times). The At fields name
+	// where each maximum sits: the first pair, in the order of the listing
+	// (by want's rows; for AnyRowOrder by the pairs' want rows), whose
+	// delta equals it. A maximum of 0 sits nowhere (Want and Got -1), so a
+	// column whose cells are all identical names no row.
 	HasDelta bool
 	MaxAbs   float64
 	MaxAbsAt RowRef

@@ -3,7 +3,6 @@ package assert
 import (
 	"bytes"
 	"encoding/binary"
-	"math"
 	"math/bits"
 	"runtime"
 	"slices"
@@ -77,15 +76,18 @@ func (r *colResult) hit(k int) {
 	r.rows[i>>6] |= 1 << (uint(i) & 63)
 }
 
-// track keeps the largest deltas; NaN deltas are ignored.
+// track keeps the largest deltas and the first slot holding each: only
+// distances above zero have a place (cells without a distance are
+// skipped). Cells may be tracked in any order: a larger distance wins,
+// and of equal ones the smaller slot.
 func (r *colResult) track(d Delta, k int) {
 	if !d.Has {
 		return
 	}
-	if d.Abs > r.maxAbs || (r.absAt < 0 && d.Abs == r.maxAbs) {
+	if d.Abs > r.maxAbs || (d.Abs == r.maxAbs && d.Abs > 0 && k < r.absAt) {
 		r.maxAbs, r.absAt = d.Abs, k
 	}
-	if d.Rel > r.maxRel || (r.relAt < 0 && d.Rel == r.maxRel) {
+	if d.Rel > r.maxRel || (d.Rel == r.maxRel && d.Rel > 0 && k < r.relAt) {
 		r.maxRel, r.relAt = d.Rel, k
 	}
 }
@@ -99,11 +101,11 @@ func (r *colResult) merge(o *colResult) {
 		}
 		copy(r.rows[(o.rowsBase-r.rowsBase)>>6:], o.rows)
 	}
-	if o.absAt >= 0 && (r.absAt < 0 || o.maxAbs > r.maxAbs) {
-		r.maxAbs, r.absAt = o.maxAbs, o.absAt
+	if o.absAt >= 0 {
+		r.track(Delta{Has: true, Abs: o.maxAbs}, o.absAt)
 	}
-	if o.relAt >= 0 && (r.relAt < 0 || o.maxRel > r.maxRel) {
-		r.maxRel, r.relAt = o.maxRel, o.relAt
+	if o.relAt >= 0 {
+		r.track(Delta{Has: true, Rel: o.maxRel}, o.relAt)
 	}
 }
 
@@ -297,7 +299,8 @@ type spares struct {
 type scratch struct {
 	reorder *reorder
 	buf     []uint64
-	bytes   []byte // string cells that do not fit in buf
+	bytes   []byte   // string cells that do not fit in buf
+	valid   []uint64 // got's validity in want order
 }
 
 // gotInWantOrder scatters got's values paired into the task's range into
@@ -317,6 +320,25 @@ func gotInWantOrder[T int8 | int16 | int32 | int64 | float64](sc *scratch, p pai
 	return out
 }
 
+// validityInWantOrder lines got's validity up with want's rows like
+// gotInWantOrder does its values: bit k is set when slot base+k has a
+// partner whose cell is not null.
+func (sc *scratch) validityInWantOrder(p pairing, gv validity) validity {
+	words := (p.n + 63) / 64
+	if cap(sc.valid) < words {
+		sc.valid = make([]uint64, words)
+	}
+	out := sc.valid[:words]
+	clear(out)
+	for _, e := range sc.reorder.byRange[p.base/taskSlots] {
+		j, k := pairAt(e)
+		if pos := gv.off + int(j); gv.bits[pos>>3]&(1<<uint(pos&7)) != 0 {
+			out[k>>6] |= 1 << (k & 63)
+		}
+	}
+	return validity{bits: asBytes(out)}
+}
+
 // reordered reports whether the task can use the reorder path.
 func (sc *scratch) reordered(p pairing) bool {
 	return sc != nil && sc.reorder != nil && p.w == nil && p.g != nil && p.base%taskSlots == 0
@@ -328,16 +350,16 @@ func (cc *colCmp) compare(p pairing, r *colResult, sc *scratch) {
 	if p.n == 0 {
 		return
 	}
+	if cc.class == classFloat {
+		cc.compareFloats(p, r, sc)
+		return
+	}
 	nulls := cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0
 	if p.w == nil && p.g == nil && (nulls || cc.class == classBool) && cc.compareNullableByPosition(p, r, sc) {
 		return
 	}
 	if nulls {
 		switch cc.class {
-		case classFloat:
-			a, b := cc.wc.Float64s(), cc.gc.Float64s()
-			cc.compareNullable(p, r, func(wi, gi int) bool { return a[wi] == b[gi] })
-			return
 		case classInt:
 			a, b := cc.wc.Int64s(), cc.gc.Int64s()
 			cc.compareNullable(p, r, func(wi, gi int) bool { return a[wi] == b[gi] })
@@ -351,9 +373,6 @@ func (cc *colCmp) compare(p pairing, r *colResult, sc *scratch) {
 		}
 	} else {
 		switch cc.class {
-		case classFloat:
-			cc.compareFloats(p, r, sc)
-			return
 		case classInt, classTime:
 			if cc.class == classInt || (cc.wc.Type().Unit() == cc.gc.Type().Unit() && !cc.hasTT) {
 				compareExact(cc, cc.wc.Int64s(), cc.gc.Int64s(), p, r, sc)
@@ -432,7 +451,7 @@ func (cc *colCmp) slowCell(wi, gi, slot int, r *colResult) {
 const bulkChunk = 2048
 
 // asBytes views a slice of fixed-size numbers as its bytes.
-func asBytes[T int8 | int16 | int32 | int64 | float64](s []T) []byte {
+func asBytes[T int8 | int16 | int32 | int64 | uint64 | float64](s []T) []byte {
 	if len(s) == 0 {
 		return nil
 	}
@@ -558,54 +577,57 @@ func exactRun[T int64 | int32](cc *colCmp, a, b []T, base int, gmap []int32, r *
 	})
 }
 
-// compareFloats compares float64 columns without nulls. Values that are
-// == (−0 and +0 included) or bit for bit identical are equal under every
-// rule and have distance 0; the rest go through the rule.
+// compareFloats compares float64 columns through the float kernel,
+// lining got's values (and validity) up with want's first when rows are
+// not paired by position.
 func (cc *colCmp) compareFloats(p pairing, r *colResult, sc *scratch) {
 	a, b := cc.wc.Float64s(), cc.gc.Float64s()
-	rule := cc.rule
-	slow := func(w, g float64, slot int) {
-		if !floatEqual(w, g, rule) {
-			r.hit(slot)
-		}
-		if rule.hasULP || math.IsInf(w, 0) || math.IsInf(g, 0) || w != w || g != g {
-			r.track(cc.withULPs(floatDelta(w, g), w, g), slot)
-			return
-		}
-		// Finite values: the distance without building a Delta.
-		abs := math.Abs(w - g)
-		if abs > r.maxAbs || r.absAt < 0 {
-			r.maxAbs, r.absAt = abs, slot
-		}
-		if rel := abs / math.Max(math.Abs(w), math.Abs(g)); rel > r.maxRel || r.relAt < 0 {
-			r.maxRel, r.relAt = rel, slot
-		}
-	}
-	run := func(a, b []float64, base int, gmap []int32) {
-		diffRuns(a, b, func(k int) {
-			if a[k] != b[k] && partner(base, k, gmap) >= 0 {
-				slow(a[k], b[k], base+k)
-			}
-		})
-	}
+	wv, gv := validityOf(cc.wc), validityOf(cc.gc)
+	l := lineup{p: p}
 	switch {
 	case p.w == nil && p.g == nil:
-		run(a[p.base:p.base+p.n], b[p.base:p.base+p.n], p.base, nil)
+		l.wv, l.gv = wv.from(p.base), gv.from(p.base)
+		cc.floatRun(a[p.base:p.base+p.n], b[p.base:p.base+p.n], l, r)
 	case sc.reordered(p):
-		run(a[p.base:p.base+p.n], gotInWantOrder(sc, p, b, false), p.base, p.g)
-	case p.w == nil:
-		a = a[p.base : p.base+p.n]
-		for k, gi := range p.g {
-			if gi >= 0 && a[k] != b[gi] {
-				slow(a[k], b[gi], p.base+k)
-			}
+		l.wv, l.paired = wv.from(p.base), pairedWords(p.g)
+		if gv.bits != nil {
+			l.gv = sc.validityInWantOrder(p, gv)
 		}
+		cc.floatRun(a[p.base:p.base+p.n], gotInWantOrder(sc, p, b, false), l, r)
 	default:
-		for k, wi := range p.w {
-			if x, y := a[wi], b[p.g[k]]; x != y {
-				slow(x, y, p.base+k)
+		// Small keyed or multiset pairings: gather both sides.
+		wa, gb := make([]float64, p.n), make([]float64, p.n)
+		wbits, gbits := make([]uint64, (p.n+63)/64), make([]uint64, (p.n+63)/64)
+		for k := range p.n {
+			wi, gi := p.at(k)
+			wa[k] = a[wi]
+			if !cc.wc.IsNull(wi) {
+				wbits[k>>6] |= 1 << uint(k&63)
+			}
+			if gi >= 0 {
+				gb[k] = b[gi]
+				if !cc.gc.IsNull(gi) {
+					gbits[k>>6] |= 1 << uint(k&63)
+				}
 			}
 		}
+		l.wv, l.gv = validity{bits: asBytes(wbits)}, validity{bits: asBytes(gbits)}
+		if p.g != nil {
+			l.paired = pairedWords(p.g)
+		}
+		cc.floatRun(wa, gb, l, r)
+	}
+}
+
+// pairedWords returns the pairing words of slots whose got rows are g
+// (negative: no partner): bit t of word c is slot c+t.
+func pairedWords(g []int32) func(c int) uint64 {
+	return func(c int) uint64 {
+		var w uint64
+		for t, x := range g[c:min(c+64, len(g))] {
+			w |= uint64(^uint32(x)>>31) << uint(t)
+		}
+		return w
 	}
 }
 

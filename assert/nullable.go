@@ -2,7 +2,6 @@ package assert
 
 import (
 	"bytes"
-	"math"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -29,6 +28,14 @@ func validityOf(col *fixtures.Column) validity {
 func boolBits(col *fixtures.Column) validity {
 	b, off := col.BoolBits()
 	return validity{b, off}
+}
+
+// from returns the validity of the rows from row base on, as rows 0….
+func (v validity) from(base int) validity {
+	if v.bits == nil {
+		return v
+	}
+	return validity{v.bits, v.off + base}
 }
 
 // word returns the validity of rows i..i+63 (bit t: row i+t is valid) for
@@ -97,10 +104,6 @@ func (cc *colCmp) compareNullableByPosition(p pairing, r *colResult, sc *scratch
 			mask := ^uint64(0) >> uint(64-(y-x))
 			return wb.word(x, nw)&mask == gb.word(x, ng)&mask
 		}, func(k int) bool { return cc.wc.Bool(k) == cc.gc.Bool(k) }, r)
-	case classFloat:
-		a, b := cc.wc.Float64s(), cc.gc.Float64s()
-		cc.nullableRun(lo, hi, func(x, y int) bool { return bytes.Equal(asBytes(a[x:y]), asBytes(b[x:y])) },
-			func(k int) bool { return a[k] == b[k] || math.Float64bits(a[k]) == math.Float64bits(b[k]) }, r)
 	case classInt, classTime:
 		if cc.class == classTime && (cc.wc.Type().Unit() != cc.gc.Type().Unit() || cc.hasTT) {
 			return false

@@ -191,7 +191,8 @@ func ULPs(col string, n uint) Option {
 }
 
 // TimeTol lets date and timestamp cells of column col differ by at most d:
-// |w − g| ≤ d, measured between the instants (dates as midnight UTC). col
+// |w − g| ≤ d, measured exactly between the instants (dates as midnight
+// UTC, or in the zone of the timestamp they are compared with). col
 // AllColumns ("*") means every date and timestamp column. d must be ≥ 0.
 func TimeTol(col string, d time.Duration) Option {
 	return Option{func(c *config) {
