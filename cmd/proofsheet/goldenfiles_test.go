@@ -143,7 +143,7 @@ func TestGoldenRules(t *testing.T) {
 	writeTree(t, dir, map[string]string{"testdata/golden/daily.gold.tbl": string(data), "out/daily.csv": outDaily})
 	r = run("out/daily.csv")
 	require.Equal(t, exitDiffers, r.code, "0.1 is over the stored 0.001")
-	require.Contains(t, r.stdout, "abs 0.001")
+	require.Contains(t, r.stdout, "abs. diff ≤ 0.001")
 }
 
 func TestGoldenReports(t *testing.T) {

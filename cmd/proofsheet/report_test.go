@@ -189,7 +189,7 @@ func TestChangesUnderStoredRules(t *testing.T) {
 	require.Equal(t, "pkg/testdata/noise.gold.tbl", cs[0].Name)
 	require.Nil(t, cs[0].Failure)
 	require.Equal(t, "pkg/testdata/wider.gold.tbl", cs[1].Name)
-	require.Equal(t, "changed: stored rules changed; largest Δabs 0.25 (tmax)", cs[1].Failure.Message)
+	require.Equal(t, "changed: stored rules changed; max abs. diff 0.25 (tmax)", cs[1].Failure.Message)
 	require.Contains(t, cs[1].Failure.Text, "before")
 
 	r = runBin(t, repo, noEnv, "changes", "--format", "json")
