@@ -303,19 +303,31 @@ func (p *plan) equal(c *column, w, g string) string {
 		if c.intOnWant {
 			iv, fv = w, g
 		}
+		// The same value exactly, or (under a tolerance) within it: under
+		// the exact rule float64(iv) must not stand for iv, which it may
+		// round to fv (assert.Compare compares by value).
 		lo, hi := d.float(-math.Pow(2, 63)), d.float(math.Pow(2, 63))
+		slack := d.boolean(false)
+		if c.rule.ByTol || c.rule.ByULPs {
+			slack = p.floatEqual(d.double(iv), fv, c)
+		}
 		return "(CASE WHEN " + d.isNaN(fv) + " THEN " + d.boolean(false) +
 			" WHEN " + fv + " = trunc(" + fv + ") AND " + fv + " >= " + lo + " AND " + fv + " < " + hi +
-			" THEN (" + d.bigint(fv) + " = " + iv + " OR " + p.floatEqual(d.double(iv), fv, c) + ")" +
-			" ELSE " + p.floatEqual(d.double(iv), fv, c) + " END)"
+			" THEN (" + d.bigint(fv) + " = " + iv + " OR " + slack + ")" +
+			" ELSE " + slack + " END)"
 	case classDate:
 		if c.hasTT {
-			return "(" + w + " = " + g + " OR abs(" + d.double(w) + " - " + d.double(g) + ") <= " + d.float(c.tt.Hours()/24) + ")"
+			// |Δ| ≤ tt exactly: whole days against the days tt holds.
+			return "(" + w + " = " + g + " OR " + d.absInt(w, g) + " <= " + d.float(float64(uint64(c.tt)/uint64(86400e9))) + ")"
 		}
 		return "(" + w + " = " + g + ")"
 	case classTime, classDateTime:
-		if c.class == classTime && c.wt.Unit() == c.gt.Unit() && !c.hasTT {
-			return "(" + w + " = " + g + ")"
+		if c.class == classTime && c.wt.Unit() == c.gt.Unit() {
+			if !c.hasTT {
+				return "(" + w + " = " + g + ")"
+			}
+			// |Δ| ≤ tt in whole ticks (exact while tt is under 2^53 ticks).
+			return "(" + w + " = " + g + " OR " + d.absInt(w, g) + " <= " + d.float(float64(uint64(c.tt)/uint64(c.wt.Unit().Duration()))) + ")"
 		}
 		ws, wns, gs, gns := p.instants(c, w, g)
 		eq := "(" + ws + " = " + gs + " AND " + wns + " = " + gns + ")"
@@ -467,6 +479,14 @@ func (p *plan) absDelta(c *column) string {
 	case classDate:
 		return "(abs(" + d.double(w) + " - " + d.double(g) + ") * " + d.float(86400) + ")"
 	case classTime, classDateTime:
+		if c.class == classTime && c.wt.Unit() == c.gt.Unit() {
+			// assert's Delta: |Δ| in the unit, rounded once, over the
+			// unit's count per second.
+			return "(" + d.absInt(w, g) + " / " + d.float(float64(1e9/int64(c.wt.Unit().Duration()))) + ")"
+		}
+		// Mixed units and dates against timestamps (LooseTypes): float
+		// seconds, which can differ from assert's exact count in the
+		// last bit.
 		ws, wns, gs, gns := p.instants(c, w, g)
 		return p.absSeconds(ws, wns, gs, gns)
 	}
