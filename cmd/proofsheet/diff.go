@@ -9,7 +9,6 @@ import (
 	"time"
 
 	"github.com/proofsheet/proofsheet/assert"
-	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/golden"
 	"github.com/proofsheet/proofsheet/internal/suggest"
 )
@@ -29,9 +28,10 @@ func diffCommand() *command {
 		summary: "compare two table files cell by cell, with keys and tolerances",
 		usage: `Usage: proofsheet diff [options] WANT GOT
 
-Loads two table files — CSV/TSV, JSON Lines, JSON array, Arrow IPC or
-Parquet, each by its extension, the two may differ in format — and
-compares GOT with WANT as assert.Compare does: schema, rows, then cells
+Loads two tables — CSV/TSV, JSON Lines, JSON array, Arrow IPC or Parquet
+files, each by its extension (the two may differ in format), compressed
+or not, or standard input (-) — and compares GOT with WANT as
+assert.Compare does: schema, rows, then cells
 under per-column rules. Prints what differs: schema changes, differing
 cells with their distances, missing and extra rows, repeated keys and
 the largest deltas per column.
@@ -43,7 +43,6 @@ Options:
   --ignore COLS      leave these comma-separated columns out
   --loose-types      compare values across types: 3 equals 3.0, a category
                      equals its text, a date a midnight timestamp
-  --as-text          read every column of both files as text (no inference)
   --format F         text (default), markdown, json (the Diff's JSON) or
                      html (one self-contained page)
   --out FILE         write the report to FILE instead of stdout; FILE is
@@ -57,6 +56,9 @@ Options:
 
 When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown
 report is appended to it. The JSON has a "schema_version" field.
+
+` + readerHelp + `
+
 Text goes to a terminal in colour unless NO_COLOR is set. A progress bar
 shows on stderr while large files load, when stderr is a terminal.
 
@@ -89,7 +91,7 @@ func runDiff(e *env, c *command, args []string) int {
 	fs.Var(&tols, "tol", "")
 	ignore := fs.String("ignore", "", "")
 	loose := fs.Bool("loose-types", false, "")
-	asText := fs.Bool("as-text", false, "")
+	rf := addReaderFlags(fs)
 	format := fs.String("format", "text", "")
 	out := fs.String("out", "", "")
 	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
@@ -125,8 +127,11 @@ func runDiff(e *env, c *command, args []string) int {
 	if ef.engine == "" && (ef.memoryLimit != "" || ef.tempDir != "") {
 		return trouble(e, c, "--memory-limit and --temp-dir are for --engine duckdb")
 	}
-	if ef.engine != "" && *asText {
+	if ef.engine != "" && rf.asText {
 		return trouble(e, c, "--as-text reads files in memory; with --engine the engine reads them: cast the columns in a sql: query instead")
+	}
+	if name := rf.given(); ef.engine != "" && name != "" {
+		return trouble(e, c, "--%s is a reader option; with --engine the engine reads the files: cast or parse the columns in a sql: query instead", name)
 	}
 	if !reportFormats[*format] {
 		return trouble(e, c, "--format %q: unknown format (want text, markdown, json or html)", *format)
@@ -188,16 +193,17 @@ func runDiff(e *env, c *command, args []string) int {
 			return fail("%s", msg)
 		}
 	} else {
-		var readOpts []fixtures.ReadOption
-		if *asText {
-			readOpts = append(readOpts, fixtures.AllText())
+		readOpts, err := rf.options()
+		if err != nil {
+			bar.finish()
+			return trouble(e, c, "%v", err)
 		}
-		want, err := readTable(bar, files[0], readOpts...)
+		want, _, err := rf.read(e, bar, files[0], readOpts)
 		if err != nil {
 			bar.finish()
 			return fail("%v", err)
 		}
-		got, err := readTable(bar, files[1], readOpts...)
+		got, _, err := rf.read(e, bar, files[1], readOpts)
 		if err != nil {
 			bar.finish()
 			return fail("%v", err)

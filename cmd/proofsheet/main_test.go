@@ -173,12 +173,16 @@ func TestProfileBadInput(t *testing.T) {
 	}{
 		{"no file", []string{"profile"}, "no file given"},
 		{"missing", []string{"profile", filepath.Join(dir, "absent.csv")}, "absent.csv"},
-		{"unknown extension", []string{"profile", write("x.xlsx", "a,b\n1,2\n")}, "unknown file extension"},
+		{"bad input format flag", []string{"profile", "--input-format", "xls", write("x.dat", "a,b\n1,2\n")}, `--input-format: unknown format "xls"`},
+		{"bad types flag", []string{"profile", "--types", "a=money", write("t.csv", "a\n1\n")}, `--types "a=money": column "a": unknown column type "money"`},
+		{"types of an absent column", []string{"profile", "--types", "b=int64", write("t2.csv", "a\n1\n")}, `WithColumnTypes names column "b", which the file does not have`},
+		{"bad strict flag", []string{"profile", "--strict=loose", write("s.csv", "a\n1\n")}, `unknown quirk "loose"`},
+		{"strict refuses", []string{"profile", "--strict=bare-quote", write("bq.csv", "a,b\n1,5\" pot\n")}, "bq.csv:2:4: bare quote"},
 		{"empty", []string{"profile", write("empty.csv", "")}, "empty.csv"},
 		{"ragged", []string{"profile", write("ragged.csv", "a,b\n1,2\n3\n")}, "ragged.csv:3"},
 		{"unclosed quote", []string{"profile", write("q.csv", "a,b\n\"x,2\n")}, "q.csv:2"},
 		{"bad delimiter flag", []string{"profile", "--delimiter", "ab", write("ok.csv", "a\n1\n")}, "want one character"},
-		{"bad format flag", []string{"profile", "--format", "xls", write("ok2.csv", "a\n1\n")}, "unknown format"},
+		{"bad format flag", []string{"profile", "--format", "csv", write("ok2.csv", "a\n1\n")}, `--format "csv": unknown report format (want text or json; the format of the files read is --input-format)`},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

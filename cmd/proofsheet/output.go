@@ -171,19 +171,22 @@ const progressMin = 8 << 20
 // on and the file is large, it reads the bytes itself to show how far the
 // reading has come, then parses them.
 func readTable(p *progress, path string, opts ...fixtures.ReadOption) (*fixtures.Table, error) {
+	t, _, err := readTableReport(p, path, opts...)
+	return t, err
+}
+
+// readTableReport is readTable that also returns the LoadReport.
+func readTableReport(p *progress, path string, opts ...fixtures.ReadOption) (*fixtures.Table, *fixtures.LoadReport, error) {
 	fi, err := os.Stat(path)
 	if p == nil || err != nil || !fi.Mode().IsRegular() || fi.Size() < progressMin {
-		t, _, err := fixtures.ReadFile(path, opts...)
-		return t, err
+		return fixtures.ReadFile(path, opts...)
 	}
 	if _, err := fixtures.FormatFor(path); err != nil {
-		t, _, err := fixtures.ReadFile(path, opts...) // the same message as without the bar
-		return t, err
+		return fixtures.ReadFile(path, opts...) // the same message as without the bar
 	}
 	f, err := os.Open(path)
 	if err != nil {
-		t, _, err := fixtures.ReadFile(path, opts...)
-		return t, err
+		return fixtures.ReadFile(path, opts...)
 	}
 	defer f.Close()
 	data := make([]byte, 0, fi.Size()+1)
@@ -198,10 +201,9 @@ func readTable(p *progress, path string, opts ...fixtures.ReadOption) (*fixtures
 		}
 		if rerr != nil {
 			p.finish()
-			return nil, &fixtures.ParseError{Path: path, Err: fmt.Errorf("cannot read the file: %w", rerr)}
+			return nil, nil, &fixtures.ParseError{Path: path, Err: fmt.Errorf("cannot read the file: %w", rerr)}
 		}
 	}
 	p.start("parsing "+filepath.Base(path)+" …", 0)
-	t, _, err := fixtures.ReadBytes(path, data, opts...)
-	return t, err
+	return fixtures.ReadBytes(path, data, opts...)
 }

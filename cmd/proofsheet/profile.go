@@ -23,17 +23,15 @@ not fit the kind (with line numbers), numbers written as text, and whether
 storing the column as a category would save memory.
 
 Options:
-  --json             print the report as JSON (an array when several files)
-  --delimiter C      use C as the field delimiter instead of sniffing (\t for tab)
-  --null TOKENS      comma-separated null tokens instead of the defaults
-  --no-header        the first line is data; columns are named col1, col2, …
-  --as-text          read every column as text (no type inference)
-  --format F         read as F (csv, tsv, jsonl, json, arrow, arrow-stream,
-                     parquet) whatever the extension
+  --format F         text (default) or json (an array when several files)
+  --json             the same as --format json
+
+` + readerHelp + `
 
 Example:
   proofsheet profile testdata/greenhouse/raw/bellecote.csv
   proofsheet profile --json testdata/greenhouse/raw/*.csv
+  gzip -dc export.csv.gz | proofsheet profile --types 'amount=decimal(12,2)' -
 
 Exit status: 0 when every file loaded, 2 when one could not be read.
 `,
@@ -45,11 +43,8 @@ Exit status: 0 when every file loaded, 2 when one could not be read.
 func runProfile(e *env, c *command, args []string) int {
 	fs := newFlags(c)
 	asJSON := fs.Bool("json", false, "")
-	delim := fs.String("delimiter", "", "")
-	nulls := fs.String("null", "", "")
-	noHeader := fs.Bool("no-header", false, "")
-	asText := fs.Bool("as-text", false, "")
-	format := fs.String("format", "", "")
+	format := fs.String("format", "text", "")
+	rf := addReaderFlags(fs)
 	files, status, ok := parseFlags(e, c, fs, args)
 	if !ok {
 		return status
@@ -57,37 +52,20 @@ func runProfile(e *env, c *command, args []string) int {
 	if len(files) == 0 {
 		return trouble(e, c, "no file given\n\n%s", c.usage)
 	}
-	var opts []fixtures.ReadOption
-	if *delim != "" {
-		d := *delim
-		if d == `\t` || d == "tab" {
-			d = "\t"
-		}
-		r := []rune(d)
-		if len(r) != 1 {
-			return trouble(e, c, "--delimiter %q: want one character", *delim)
-		}
-		opts = append(opts, fixtures.WithDelimiter(r[0]))
+	switch *format {
+	case "text":
+	case "json":
+		*asJSON = true
+	default:
+		return trouble(e, c, "--format %q: unknown report format (want text or json; the format of the files read is --input-format)", *format)
 	}
-	if isSet(fs, "null") {
-		opts = append(opts, fixtures.WithNullTokens(splitList(*nulls)...))
-	}
-	if *noHeader {
-		opts = append(opts, fixtures.NoHeader())
-	}
-	if *asText {
-		opts = append(opts, fixtures.AllText())
-	}
-	if *format != "" {
-		f, err := fixtures.ParseFormat(*format)
-		if err != nil {
-			return trouble(e, c, "--format: %v", err)
-		}
-		opts = append(opts, fixtures.WithFormat(f))
+	opts, err := rf.options()
+	if err != nil {
+		return trouble(e, c, "%v", err)
 	}
 	var reports []*fixtures.LoadReport
 	for _, f := range files {
-		_, rep, err := fixtures.ReadFile(f, opts...)
+		_, rep, err := rf.read(e, nil, f, opts)
 		if err != nil {
 			return trouble(e, c, "%v", err)
 		}

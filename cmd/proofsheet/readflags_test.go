@@ -1,0 +1,133 @@
+package main
+
+import (
+	"bytes"
+	"compress/gzip"
+	"encoding/json"
+	"errors"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+
+	"github.com/proofsheet/proofsheet/fixtures"
+)
+
+// runBinStdin runs the built binary with the given standard input.
+func runBinStdin(t *testing.T, stdin []byte, args ...string) result {
+	t.Helper()
+	cmd := exec.Command(binPath, args...)
+	cmd.Env = append(os.Environ(), "NO_COLOR=1")
+	cmd.Stdin = bytes.NewReader(stdin)
+	var so, se bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &so, &se
+	err := cmd.Run()
+	code := 0
+	if err != nil {
+		var ee *exec.ExitError
+		require.True(t, errors.As(err, &ee), "run %v: %v", args, err)
+		code = ee.ExitCode()
+	}
+	return result{code, so.String(), se.String()}
+}
+
+func TestParseTypes(t *testing.T) {
+	s, err := parseTypes(`amount=decimal(12,2), day=date,"air temp"=float64,at=timestamp(ms,UTC)`)
+	require.NoError(t, err)
+	require.Equal(t, "amount:decimal(12,2), day:date, air temp:float64, at:timestamp(ms,UTC)", s.String())
+	for spec, msg := range map[string]string{
+		"":                     "no column declared",
+		"amount":               `"amount": want NAME=TYPE`,
+		"=int64":               `"=int64": want NAME=TYPE`,
+		"a=int64,a=date":       `column "a" is declared twice`,
+		"a=decimal(40,2)":      `column "a": type "decimal(40,2)": decimal precision 40 is outside 1..38`,
+		`"unclosed=int64`:      "a quoted name must be a Go string literal",
+		"a=int64,b=money(2,1)": `column "b": unknown column type "money(2,1)"`,
+	} {
+		_, err := parseTypes(spec)
+		require.ErrorContains(t, err, msg, spec)
+	}
+}
+
+func TestParseTypesFile(t *testing.T) {
+	s, err := parseTypesFile("t.tbl", []byte("# money as decimal\n\n  amount:decimal(12,2) | day:date\n1.00 | 2026-04-01\n"))
+	require.NoError(t, err)
+	require.Equal(t, "amount:decimal(12,2), day:date", s.String())
+
+	// The gen schema file of the demo declares the uploads' columns.
+	data, err := os.ReadFile(repoFile("testdata", "greenhouse", "uploads.schema"))
+	require.NoError(t, err)
+	s, err = parseTypesFile("uploads.schema", data)
+	require.NoError(t, err)
+	require.NotEmpty(t, s)
+
+	_, err = parseTypesFile("e.tbl", []byte("# nothing\n"))
+	require.ErrorContains(t, err, "no column declared")
+	_, err = parseTypesFile("e.tbl", []byte("a:money\n"))
+	require.ErrorContains(t, err, "money")
+}
+
+func TestDiffDeclaredTypesAndStdin(t *testing.T) {
+	dir := t.TempDir()
+	want := filepath.Join(dir, "want.csv")
+	require.NoError(t, os.WriteFile(want, []byte("id,amount,day\n1,10.10,2026-04-01\n2,0.30,2026-04-02\n"), 0o644))
+	got := []byte(`{"id":1,"amount":10.1,"day":"2026-04-01"}` + "\n" + `{"id":2,"amount":0.3,"day":"2026-04-02"}` + "\n")
+	gotPath := filepath.Join(dir, "got.jsonl")
+	require.NoError(t, os.WriteFile(gotPath, got, 0o644))
+
+	// Money declared as decimal in both files: compared exactly, as decimals.
+	r := runBin(t, "", nil, "diff", "--format", "json", "--key", "id", "--types", "amount=decimal(12,2),day=date", want, gotPath)
+	require.Equal(t, exitSame, r.code, r.stdout+r.stderr)
+	var d struct {
+		Equal bool `json:"equal"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &d))
+	require.True(t, d.Equal)
+
+	// The same through a types file, with GOT on standard input (JSON
+	// Lines told by its bytes).
+	typesFile := filepath.Join(dir, "money.tbl")
+	require.NoError(t, os.WriteFile(typesFile, []byte("amount:decimal(12,2) | day:date\n"), 0o644))
+	r = runBinStdin(t, got, "diff", "--key", "id", "--types-file", typesFile, want, "-")
+	require.Equal(t, exitSame, r.code, r.stdout+r.stderr)
+
+	// A cent off is a difference; a value with more decimals than the
+	// declared scale is refused with where it is.
+	got2 := bytes.Replace(got, []byte("10.1,"), []byte("10.11,"), 1)
+	r = runBinStdin(t, got2, "diff", "--key", "id", "--types", "amount=decimal(12,2)", want, "-")
+	require.Equal(t, exitDiffers, r.code, r.stdout+r.stderr)
+	got3 := bytes.Replace(got, []byte("10.1,"), []byte("10.125,"), 1)
+	r = runBinStdin(t, got3, "diff", "--key", "id", "--types", "amount=decimal(12,2)", want, "-")
+	require.Equal(t, exitTrouble, r.code, r.stdout+r.stderr)
+	require.Contains(t, r.stderr, `-:1:`)
+	require.Contains(t, r.stderr, `"amount"`)
+
+	// Standard input once only.
+	r = runBinStdin(t, got, "diff", "-", "-")
+	require.Equal(t, exitTrouble, r.code)
+	require.Contains(t, r.stderr, "standard input can be read only once")
+}
+
+func TestProfileStdinCompressed(t *testing.T) {
+	var gz bytes.Buffer
+	w := gzip.NewWriter(&gz)
+	w.Write([]byte("house;tmax\nÉtang;21,5\nVerger;19\n"))
+	require.NoError(t, w.Close())
+	r := runBinStdin(t, gz.Bytes(), "profile", "--format", "json", "--delimiter", ";", "--types", "tmax=string", "-")
+	require.Equal(t, exitSame, r.code, r.stderr)
+	var rep fixtures.LoadReport
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &rep))
+	require.Equal(t, "-", rep.Path)
+	require.Equal(t, fixtures.CompressionGzip, rep.Compression)
+	require.True(t, rep.FormatSniffed)
+	require.Equal(t, fixtures.FormatCSV, rep.Format)
+	require.Equal(t, 2, rep.Rows)
+	require.Equal(t, fixtures.KindString, rep.Column("tmax").Kind)
+	require.Equal(t, 1, rep.Column("tmax").Numbers.DecimalComma)
+
+	// --json is --format json.
+	r2 := runBinStdin(t, gz.Bytes(), "profile", "--json", "--delimiter", ";", "--types", "tmax=string", "-")
+	require.Equal(t, r.stdout, r2.stdout)
+}
