@@ -251,7 +251,7 @@ func TestDiffBadInput(t *testing.T) {
 	dir := writeFiles(t, map[string]string{
 		"want.csv":   dailyWant,
 		"got.csv":    dailyGot,
-		"x.xlsx":     "a,b\n1,2\n",
+		"x.dat":      "a,b\n1,\x00\n",
 		"ragged.csv": "a,b\n1,2\n3\n",
 		"keep.md":    "earlier report\n",
 	})
@@ -265,7 +265,7 @@ func TestDiffBadInput(t *testing.T) {
 		{"one file", []string{f("want.csv")}, "want two files"},
 		{"three files", []string{f("want.csv"), f("got.csv"), f("got.csv")}, "want two files"},
 		{"missing file", []string{f("want.csv"), f("absent.csv")}, "absent.csv: cannot read the file"},
-		{"unknown extension", []string{f("want.csv"), f("x.xlsx")}, `unknown file extension ".xlsx"`},
+		{"unknown extension, bad bytes", []string{f("want.csv"), f("x.dat")}, "x.dat:2:3: NUL byte in the text"},
 		{"bad csv", []string{f("want.csv"), f("ragged.csv")}, "ragged.csv:3"},
 		{"unknown format", []string{"--format", "xml", f("want.csv"), f("got.csv")}, `--format "xml": unknown format`},
 		{"bad tol: no rule", []string{"--tol", "tmax", f("want.csv"), f("got.csv")}, `--tol "tmax": want COLUMN=RULE`},
