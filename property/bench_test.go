@@ -43,17 +43,18 @@ func BenchmarkMessyCells(b *testing.B) {
 	const rows = 10000
 	cells := rows * len(greenhouse)
 	opts := Options{Mess: Heavy}
-	var ours, peer time.Duration
+	var ours, peer, oursCPU time.Duration
 	for i := 0; i < b.N; i++ {
 		b.StopTimer()
 		runtime.GC() // the peer's garbage is not ours to collect
 		b.StartTimer()
-		start := time.Now()
+		start, startCPU := time.Now(), cpuTime()
 		s, err := Generate(greenhouse, rows, int64(i), opts)
 		if err != nil || s.NumRows() != rows {
 			b.Fatal(err)
 		}
 		ours += time.Since(start)
+		oursCPU += cpuTime() - startCPU
 
 		b.StopTimer()
 		runtime.GC()
@@ -69,6 +70,9 @@ func BenchmarkMessyCells(b *testing.B) {
 		b.StartTimer()
 	}
 	b.ReportMetric(float64(cells*b.N)/ours.Seconds(), "cells/s")
+	if oursCPU > 0 {
+		b.ReportMetric(float64(cells*b.N)/oursCPU.Seconds(), "cells/cpu-s")
+	}
 	b.ReportMetric(float64(cells*b.N)/peer.Seconds(), "gopter-cells/s")
 	b.ReportMetric(peer.Seconds()/ours.Seconds(), "x-vs-gopter")
 }
@@ -212,4 +216,172 @@ func BenchmarkShrinkStandalone1000(b *testing.B) {
 	}
 	b.ReportMetric(float64(left)/float64(b.N), "rows-left")
 	b.ReportMetric(float64(took.Microseconds())/1000/float64(b.N), "ms")
+}
+
+// bookings is the schema of the rules benchmark: the bench-booking export
+// of testdata/greenhouse/bookings.schema, with a derived total.
+var bookings = fixtures.Schema{
+	fixtures.Col("booking_id", fixtures.Int64),
+	fixtures.Col("member", fixtures.String),
+	fixtures.Col("house", fixtures.Category),
+	fixtures.Col("minutes", fixtures.Int64),
+	fixtures.Col("price", fixtures.DecimalOf(10, 2)),
+	fixtures.Col("booked_on", fixtures.Date),
+	fixtures.Col("total", fixtures.DecimalOf(14, 2)),
+	fixtures.Col("note", fixtures.String),
+}
+
+var bookingRules = Options{Mess: Light, Locale: "en-US", Columns: map[string]Rules{
+	"booking_id": {Unique: Sequential, Min: "10001", Plain: true},
+	"member":     {Values: []Choice{{"Zoë Ørsted", 3}, {"Amélie Brûlé", 2}, {"Jürgen Weiß", 1}, {"Søren Kærgaard", 1}}, Plain: true},
+	"house":      {Values: []Choice{{"Bellecôte", 4}, {"Kæreby", 3}, {"Piñonal", 2}, {"Ørnely", 1}}},
+	"minutes":    {NonNegative: true, Max: "480", Plain: true},
+	"price":      {Min: "0", Max: "12000", Messes: []Mess{MessCurrency, MessThousands}, MessRate: 0.7},
+	"booked_on":  {Min: "2026-03-01", Max: "2026-06-30", Messes: []Mess{MessMonthFirst}, MessRate: 0.5},
+	"total":      {Derive: "price * minutes / 60"},
+	"note":       {MinLen: 3, MaxLen: 30, NullRate: 0.3},
+}}
+
+// peerBookingGen draws the same rows with gopter's own generators: a
+// counter for the id, weighted constants, ranges, the $ and the commas
+// by hand, no derived column check beyond the product.
+func peerBookingGen() gopter.Gen {
+	id := int64(10000)
+	day := gen.TimeRange(time.Date(2026, 3, 1, 0, 0, 0, 0, time.UTC), 121*24*time.Hour)
+	return gopter.CombineGens(
+		gen.Const(0).Map(func(int) string { id++; return strconv.FormatInt(id, 10) }),
+		gen.Weighted([]gen.WeightedGen{{Weight: 3, Gen: gen.Const("Zoë Ørsted")}, {Weight: 2, Gen: gen.Const("Amélie Brûlé")}, {Weight: 1, Gen: gen.Const("Jürgen Weiß")}, {Weight: 1, Gen: gen.Const("Søren Kærgaard")}}),
+		gen.Weighted([]gen.WeightedGen{{Weight: 4, Gen: gen.Const("Bellecôte")}, {Weight: 3, Gen: gen.Const("Kæreby")}, {Weight: 2, Gen: gen.Const("Piñonal")}, {Weight: 1, Gen: gen.Const("Ørnely")}}),
+		gen.Int64Range(0, 480),
+		gen.Int64Range(0, 1200000),
+		gen.Bool(),
+		day,
+		gen.Bool(),
+		gen.AlphaString(),
+	).Map(func(v []any) []string {
+		minutes, cents := v[3].(int64), v[4].(int64)
+		price := strconv.FormatFloat(float64(cents)/100, 'f', 2, 64)
+		if v[5].(bool) {
+			price = "$" + price
+		}
+		d := v[6].(time.Time)
+		booked := d.Format("2006-01-02")
+		if v[7].(bool) {
+			booked = d.Format("1/2/2006")
+		}
+		total := strconv.FormatFloat(float64(cents*minutes)/6000, 'f', 2, 64)
+		return []string{v[0].(string), v[1].(string), v[2].(string), strconv.FormatInt(minutes, 10), price, booked, total, v[8].(string)}
+	})
+}
+
+// BenchmarkGenerateWithRules measures generation under per-column rules
+// (a sequence, weighted values, ranges, one locale's money and dates, a
+// derived column, string lengths); target ≥ 1M cells/s, with gopter's own
+// generators drawing comparable rows as the peer.
+func BenchmarkGenerateWithRules(b *testing.B) {
+	const rows = 10000
+	cells := rows * len(bookings)
+	var ours, peer, oursCPU time.Duration
+	for i := 0; i < b.N; i++ {
+		b.StopTimer()
+		runtime.GC()
+		b.StartTimer()
+		start, startCPU := time.Now(), cpuTime()
+		s, err := Generate(bookings, rows, int64(i), bookingRules)
+		if err != nil || s.NumRows() != rows {
+			b.Fatal(err)
+		}
+		ours += time.Since(start)
+		oursCPU += cpuTime() - startCPU
+
+		b.StopTimer()
+		runtime.GC()
+		g := peerBookingGen()
+		p := params(int64(i))
+		start = time.Now()
+		for r := 0; r < rows; r++ {
+			if _, ok := g(p).Retrieve(); !ok {
+				b.Fatal("peer draw failed")
+			}
+		}
+		peer += time.Since(start)
+		b.StartTimer()
+	}
+	b.ReportMetric(float64(cells*b.N)/ours.Seconds(), "cells/s")
+	if oursCPU > 0 {
+		// Per CPU second of the process (garbage collection included):
+		// what an idle machine gives, when the machine is busy.
+		b.ReportMetric(float64(cells*b.N)/oursCPU.Seconds(), "cells/cpu-s")
+	}
+	b.ReportMetric(float64(cells*b.N)/peer.Seconds(), "gopter-cells/s")
+	b.ReportMetric(peer.Seconds()/ours.Seconds(), "x-vs-gopter")
+}
+
+// BenchmarkShrinkValues1000 shrinks a 1000-row heavy table whose failure
+// needs a value below -100 °C: rows, columns and spellings, then the
+// value itself; target ≤ 3 rows in ≤ 2 s. The peer is gopter's slice
+// shrinker with its own float64 shrinker on the same readings.
+func BenchmarkShrinkValues1000(b *testing.B) {
+	var ours, theirs, oursCPU time.Duration
+	var left, peerLeft, chars int
+	for i := 0; i < b.N; i++ {
+		s, err := Generate(greenhouse, 1000, 21, Options{Mess: Heavy, ExtremeRate: -1})
+		if err != nil {
+			b.Fatal(err)
+		}
+		cold := func(s *Sample) bool {
+			j := s.colIndex("temp_c")
+			if j < 0 {
+				return false
+			}
+			for r := 0; r < s.NumRows(); r++ {
+				if v, ok := s.Cell(r, j).Clean.(float64); ok && v < -100 {
+					return true
+				}
+			}
+			return false
+		}
+		g := func(*gopter.GenParameters) *gopter.GenResult { return gopter.NewGenResult(s, SampleShrinker) }
+		start, startCPU := time.Now(), cpuTime()
+		res := prop.ForAll(func(s *Sample) bool { return !cold(s) }, g).Check(gopter.DefaultTestParametersWithSeed(1))
+		ours += time.Since(start)
+		oursCPU += cpuTime() - startCPU
+		got := res.Args[0].Arg.(*Sample)
+		if got.NumRows() > 3 {
+			b.Fatalf("shrunk to %d rows", got.NumRows())
+		}
+		left += got.NumRows()
+		chars += len(got.Cell(0, 0).Raw)
+
+		// Peer: gopter's slice shrinker and float shrinker on the readings.
+		b.StopTimer()
+		j := s.colIndex("temp_c")
+		temps := make([]float64, 0, s.NumRows())
+		for r := 0; r < s.NumRows(); r++ {
+			v, _ := s.Cell(r, j).Clean.(float64)
+			temps = append(temps, v)
+		}
+		pg := func(*gopter.GenParameters) *gopter.GenResult {
+			return gopter.NewGenResult(temps, gen.SliceShrinker(gen.Float64Shrinker))
+		}
+		peerProp := prop.ForAll(func(ts []float64) bool {
+			for _, v := range ts {
+				if v < -100 {
+					return false
+				}
+			}
+			return true
+		}, pg)
+		start = time.Now()
+		pres := peerProp.Check(gopter.DefaultTestParametersWithSeed(1))
+		theirs += time.Since(start)
+		peerLeft += len(pres.Args[0].Arg.([]float64))
+		b.StartTimer()
+	}
+	b.ReportMetric(float64(left)/float64(b.N), "rows-left")
+	b.ReportMetric(float64(chars)/float64(b.N), "chars-left")
+	b.ReportMetric(float64(ours.Milliseconds())/float64(b.N), "ms")
+	b.ReportMetric(float64(oursCPU.Milliseconds())/float64(b.N), "cpu-ms")
+	b.ReportMetric(float64(peerLeft)/float64(b.N), "gopter-rows-left")
+	b.ReportMetric(ours.Seconds()/theirs.Seconds(), "x-of-gopter-time")
 }

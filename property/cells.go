@@ -275,6 +275,9 @@ func (g *colGen) couldBeValue(tok string) bool {
 // twelve-hour clock with month-first dates, and in a locale whose decimal mark is a comma any number mess with
 // decimal-comma, unless the column avoids it.
 func (g *colGen) allowedMess(primary, m Mess) bool {
+	if m == primary {
+		return true // spellers are chosen among the column's messes
+	}
 	for _, p := range m.Parts() {
 		if g.cc.allowed[p] || p == primary {
 			continue
@@ -373,10 +376,20 @@ func (g *colGen) spellClean(r *rng, m Messy) Messy {
 }
 
 // derived makes the cell of a derived column from the clean values of its
-// record (rec, in schema order, holding every column it reads).
-func (g *colGen) derived(r *rng, rec []any) Messy {
+// record (rec, in schema order, holding every column it reads); fast holds
+// the same values as small fractions where known (see fastderive.go).
+func (g *colGen) derived(r *rng, rec []any, fast []frac) Messy {
 	if r.chance(g.cc.nullRate) {
 		return g.null(r)
+	}
+	if fast != nil {
+		if f := g.cc.derive.evalFast(fast); f.ok {
+			v := &g.tmp
+			*v = value{}
+			if g.derivedFast(f, v) {
+				return g.spell(r, v)
+			}
+		}
 	}
 	val, ok := g.cc.derive.eval(rec)
 	if !ok {

@@ -3,6 +3,7 @@ package property
 import (
 	"errors"
 	"fmt"
+	"math"
 	"math/big"
 	"strconv"
 	"strings"
@@ -255,11 +256,13 @@ func ratOf(v any) (*big.Rat, bool) {
 	case int64:
 		return new(big.Rat).SetInt64(x), true
 	case float64:
-		r := new(big.Rat)
-		if r.SetFloat64(x) == nil {
+		// The number as written (its shortest round-trip spelling), not
+		// the binary fraction: 0.1 is 1/10, as a reader of the file takes
+		// it.
+		if math.IsInf(x, 0) || math.IsNaN(x) {
 			return nil, false
 		}
-		return r, true
+		return new(big.Rat).SetString(strconv.FormatFloat(x, 'g', -1, 64))
 	case fixtures.Decimal:
 		return x.Rat(), true
 	}

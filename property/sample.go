@@ -154,7 +154,15 @@ func generateFrom(schema fixtures.Schema, n int, seed int64, root *rng, c *confi
 	// Extra columns were numbered -1, -2, … in order of creation.
 	extraOf := func(field int) int { return -1 - field }
 
-	// Rows.
+	// Rows. Records with derived columns keep their numbers as fractions
+	// too, for the fast path of derive.
+	var fast []frac
+	for _, cc := range c.cols {
+		if cc.derive != nil {
+			fast = make([]frac, len(schema))
+			break
+		}
+	}
 	w := len(s.cols)
 	cells := make([]Messy, n*w)
 	recCells := make([]Messy, len(schema))
@@ -181,11 +189,17 @@ func generateFrom(schema fixtures.Schema, n int, seed int64, root *rng, c *confi
 		rec := cleanAll[start:]
 		for _, j := range c.order {
 			if c.cols[j].derive != nil {
-				recCells[j] = gens[j].derived(crs[j], rec)
+				recCells[j] = gens[j].derived(crs[j], rec, fast)
 			} else {
 				recCells[j] = gens[j].next(crs[j])
 			}
 			rec[j] = recCells[j].Clean
+			if fast != nil {
+				fast[j] = frac{}
+				if rec[j] != nil && schema[j].Type.Kind().IsNumeric() && !recCells[j].Mess.Has(MessExtreme) {
+					fast[j] = fracOf(&gens[j].tmp)
+				}
+			}
 		}
 		s.recs = append(s.recs, cleanAll[start:len(cleanAll):len(cleanAll)])
 		for j, rc := range s.cols {
