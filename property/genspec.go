@@ -185,6 +185,12 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 		return nil, &fixtures.ParseError{Path: name, Err: errors.New("no columns: want one line per column, NAME TYPE")}
 	}
 	if err := spec.Options.Validate(spec.Schema); err != nil {
+		var ce *ColumnError
+		if errors.As(err, &ce) {
+			if line, ok := seen[ce.Column]; ok {
+				return nil, &fixtures.ParseError{Path: name, Line: line, Column: 1, Err: fmt.Errorf("column %q: %w", ce.Column, ce.Err)}
+			}
+		}
 		return nil, &fixtures.ParseError{Path: name, Err: err}
 	}
 	if _, err := spec.Style.norm(); err != nil {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"strings"
 	"testing"
 	"time"
 
@@ -63,6 +64,14 @@ func TestParseGenSpecSettings(t *testing.T) {
 		{"@shuffle", func(t *testing.T, s *GenSpec) { require.True(t, s.Options.Shuffle) }},
 		{"@header-mess", func(t *testing.T, s *GenSpec) { require.True(t, s.Options.HeaderMess) }},
 		{"@decimals 2", func(t *testing.T, s *GenSpec) { require.Equal(t, 2, s.Options.Decimals) }},
+		{"@locale fr_fr", func(t *testing.T, s *GenSpec) { require.Equal(t, "fr-FR", s.Options.Locale) }},
+		{"@mixed-sources", func(t *testing.T, s *GenSpec) { require.True(t, s.Options.MixedSources) }},
+		{"@also total-row cut-short", func(t *testing.T, s *GenSpec) {
+			require.Equal(t, []Mess{MessTotalRow, MessCutShort}, s.Options.Also)
+		}},
+		{"@uploads 4", func(t *testing.T, s *GenSpec) { require.Equal(t, 4, s.Options.Uploads) }},
+		{"@overlap 0.5", func(t *testing.T, s *GenSpec) { require.Equal(t, 0.5, s.Options.Overlap) }},
+		{"@upload-rate 1", func(t *testing.T, s *GenSpec) { require.Equal(t, 1.0, s.Options.UploadRate) }},
 	}
 	for _, c := range cases {
 		t.Run(c.line, func(t *testing.T) {
@@ -95,6 +104,16 @@ func TestParseGenSpecErrors(t *testing.T) {
 		{"bad delimiter", "@delimiter :\na int64\n", 1, 12, "unknown delimiter"},
 		{"setting value missing", "@quoting\na int64\n", 1, 1, "takes one value"},
 		{"flag with value", "@shuffle yes\na int64\n", 1, 10, "takes no value"},
+		{"unknown flag", "a int64 unique nonneg\n", 1, 16, `unknown column flag "nonneg"`},
+		{"bad share", "a int64 null-rate=2\n", 1, 9, "want a share from 0 to 1"},
+		{"bad length", "a string length=5..2\n", 1, 10, "want N or MIN..MAX"},
+		{"bad unique", "a int64 unique=often\n", 1, 9, "want unique, unique=sequential or unique=gaps"},
+		{"bad derive", "a int64\nb int64 derive=\"a *\"\n", 2, 9, "ends early"},
+		{"weights without values", "a int64 weights=1|2\n", 1, 9, "2 weights for 0 values"},
+		{"bad locale", "@locale xx\na int64\n", 1, 9, `unknown locale "xx"`},
+		{"rule of the column", "id int64\nb int64 unique min=1 max=5\n", 2, 1, `column "b": only 5 distinct values fit its rules`},
+		{"mess the locale lacks", "@locale de-DE\nday date mess=month-first\n", 2, 1, `column "day": a date column in de-DE never takes mess month-first`},
+		{"min on text", "s string min=3\n", 1, 1, "min and max are for numbers"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -184,4 +203,40 @@ kept   int64
 	// Les Pins,0
 	// Étang,-6
 	// Les Pins,-797
+}
+
+func TestParseGenSpecColumnOptions(t *testing.T) {
+	text := `@locale en-US
+id     int64          unique=sequential min=1001 mess=none
+house  category       levels="Bellecôte|Kæreby" weights=3|1
+kind   string         values=seed|cutting weights=1|2 null-rate=0
+mins   int64          non-negative max=480 mess=thousands|edge-space mess-rate=0.2
+price  decimal(10,2)  min=0.5 max=99 decimals=1 avoid=currency locale=de-DE
+pin    string         length=4 alphabet=digits
+note   string         length=3..20 null-tokens=n/a|- sentinels=ERR
+ok     bool           plain
+total  decimal(12,2)  derive="price * mins"
+`
+	spec, err := ParseGenSpec("r.schema", []byte(text))
+	require.NoError(t, err)
+	c := spec.Options.Columns
+	require.Equal(t, Rules{Unique: Sequential, Min: "1001", Plain: true}, c["id"])
+	require.Equal(t, []Choice{{"Bellecôte", 3}, {"Kæreby", 1}}, c["house"].Values)
+	require.Equal(t, Rules{Values: []Choice{{"seed", 1}, {"cutting", 2}}, NullRate: -1}, c["kind"])
+	require.Equal(t, Rules{NonNegative: true, Max: "480", Messes: []Mess{MessThousands, MessEdgeSpace}, MessRate: 0.2}, c["mins"])
+	require.Equal(t, Rules{Min: "0.5", Max: "99", Decimals: 1, Avoid: []Mess{MessCurrency}, Locale: "de-DE"}, c["price"])
+	require.Equal(t, Rules{MinLen: 4, MaxLen: 4, Alphabet: "digits"}, c["pin"])
+	require.Equal(t, Rules{MinLen: 3, MaxLen: 20, NullTokens: []string{"n/a", "-"}, Sentinels: []string{"ERR"}}, c["note"])
+	require.Equal(t, Rules{Plain: true}, c["ok"])
+	require.Equal(t, Rules{Derive: "price * mins"}, c["total"])
+	data, err := spec.CSV(100, 3)
+	require.NoError(t, err)
+	raw, _, err := fixtures.ReadBytes("r.csv", data, fixtures.AllText())
+	require.NoError(t, err)
+	for i := 0; i < raw.NumRows(); i++ {
+		if p := raw.Column("pin"); !p.IsNull(i) {
+			require.Regexp(t, `^[0-9]{4}$`, strings.Trim(p.Str(i), " \t\u00a0"), "edge blanks are the light mess")
+		}
+		require.False(t, raw.Column("kind").IsNull(i))
+	}
 }

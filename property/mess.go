@@ -1,6 +1,7 @@
 package property
 
 import (
+	"errors"
 	"fmt"
 	"slices"
 	"strings"
@@ -656,9 +657,10 @@ var (
 
 // errNotProducible is returned for a mess asked for by name that no column
 // can take in its locale.
-type errNotProducible struct{ msg string }
+type errNotProducible struct{ err error }
 
-func (e *errNotProducible) Error() string { return e.msg }
+func (e *errNotProducible) Error() string { return e.err.Error() }
+func (e *errNotProducible) Unwrap() error { return e.err }
 
 // checkProducible refuses messes asked for by name (Spellings, a column's
 // Messes) that no column, or not the column, can take: a spelling its
@@ -671,7 +673,7 @@ func (c *config) checkProducible(schema fixtures.Schema, o Options) error {
 	for j, f := range schema {
 		for _, m := range c.cols[j].rules.Messes {
 			if !gens[j].canMake(m) {
-				return &errNotProducible{fmt.Sprintf("property: column %q: %s", f.Name, cannotMake(m, f, gens[j]))}
+				return &errNotProducible{&ColumnError{Column: f.Name, Err: errors.New(cannotMake(m, f, gens[j]))}}
 			}
 		}
 	}
@@ -688,9 +690,9 @@ func (c *config) checkProducible(schema fixtures.Schema, o Options) error {
 		}
 		if !ok && len(schema) > 0 {
 			if len(schema) == 1 {
-				return &errNotProducible{fmt.Sprintf("property: column %q: %s", schema[0].Name, cannotMake(m, schema[0], gens[0]))}
+				return &errNotProducible{&ColumnError{Column: schema[0].Name, Err: errors.New(cannotMake(m, schema[0], gens[0]))}}
 			}
-			return &errNotProducible{fmt.Sprintf("property: no column can take mess %s in its locale and kind; name another locale, or turn on mixed sources", m)}
+			return &errNotProducible{fmt.Errorf("property: no column can take mess %s in its locale and kind; name another locale, or turn on mixed sources", m)}
 		}
 	}
 	return nil
@@ -741,7 +743,7 @@ func (c *config) checkCapacity(schema fixtures.Schema, rows int, what string) er
 			continue
 		}
 		if n := cc.capacity(f, c, rows); n < rows {
-			return fmt.Errorf("property: column %q: only %d distinct values fit its rules, fewer than %s %d", f.Name, n, what, rows)
+			return &ColumnError{Column: f.Name, Err: fmt.Errorf("only %d distinct values fit its rules, fewer than %s %d", n, what, rows)}
 		}
 	}
 	return nil

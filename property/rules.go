@@ -114,6 +114,19 @@ var alphabets = map[string]string{
 	"hex":     "0123456789abcdef",
 }
 
+// ColumnError is an option or rule that does not fit one column: a bound
+// outside its type, a mess its locale never writes, a unique column with
+// too few values. ParseGenSpec reports it at the column's line.
+type ColumnError struct {
+	Column string
+	Err    error
+}
+
+func (e *ColumnError) Error() string { return fmt.Sprintf("property: column %q: %v", e.Column, e.Err) }
+
+// Unwrap returns the reason.
+func (e *ColumnError) Unwrap() error { return e.Err }
+
 // colConf is a column's rules compiled against its type and the file's
 // options.
 type colConf struct {
@@ -178,7 +191,7 @@ func compileColumn(f fixtures.Field, schema fixtures.Schema, r Rules, c *config)
 	k := f.Type.Kind()
 	cc := &colConf{rules: r, lc: c.locale}
 	fail := func(format string, args ...any) error {
-		return fmt.Errorf("property: column %q: %s", f.Name, fmt.Sprintf(format, args...))
+		return &ColumnError{Column: f.Name, Err: fmt.Errorf(format, args...)}
 	}
 	if r.Locale != "" {
 		l, err := LocaleByTag(r.Locale)

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"strconv"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -135,4 +136,39 @@ func TestGenBadInput(t *testing.T) {
 			require.Equal(t, "earlier\n", string(data), "--out is untouched on failure")
 		})
 	}
+}
+
+// The bench-booking schema of the demo network, column by column: what
+// gen writes keeps to every column's rules (the property package counts
+// the same file over many samples in TestBookingsAreExactlyAsDescribed).
+func TestGenFollowsColumnRules(t *testing.T) {
+	r := runBin(t, "", nil, "gen", "--schema", repoFile("testdata/greenhouse/bookings.schema"), "--rows", "200", "--seed", "5")
+	require.Equal(t, exitSame, r.code, r.stderr)
+	tb, rep, err := fixtures.ReadBytes("b.csv", []byte(r.stdout), fixtures.AllText())
+	require.NoError(t, err)
+	require.Equal(t, fixtures.EncodingWindows1252, rep.Encoding)
+	id, minutes, price, day := tb.Column("booking_id"), tb.Column("minutes"), tb.Column("price"), tb.Column("booked_on")
+	last := 10000
+	for i := 0; i < tb.NumRows(); i++ {
+		n, err := strconv.Atoi(id.Str(i))
+		require.NoError(t, err)
+		// A new booking takes the next id; a duplicate row repeats one.
+		require.True(t, n == last+1 || n <= last && n > 10000, "ids in sequence: %d after %d", n, last)
+		last = max(last, n)
+		m, err := strconv.Atoi(minutes.Str(i))
+		require.NoError(t, err)
+		require.True(t, m >= 0 && m <= 480)
+		require.Regexp(t, `^\$?[0-9]{1,3}(,[0-9]{3})*\.[0-9]{2}$|^[0-9]+\.[0-9]{2}$`, price.Str(i))
+		require.Regexp(t, `^2026-0[3-6]-[0-9]{2}$|^0?[3-6]/[0-9]{1,2}/2026$`, day.Str(i))
+	}
+
+	// A rule that cannot hold is refused with where and why.
+	dir := writeFiles(t, map[string]string{"bad.schema": "id int64 unique min=1 max=5\n@null-rate 0\n"})
+	r = runBin(t, "", nil, "gen", "--schema", filepath.Join(dir, "bad.schema"), "--rows", "10")
+	require.Equal(t, exitTrouble, r.code)
+	require.Contains(t, r.stderr, `column "id": only 5 distinct values fit its rules`)
+	dir = writeFiles(t, map[string]string{"bad.schema": "day date mess=day-first\n"})
+	r = runBin(t, "", nil, "gen", "--schema", filepath.Join(dir, "bad.schema"))
+	require.Equal(t, exitTrouble, r.code)
+	require.Contains(t, r.stderr, "never takes mess day-first")
 }
