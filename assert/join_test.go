@@ -73,8 +73,8 @@ func TestDenseJoinAgreesWithHashJoin(t *testing.T) {
 					require.NotNil(t, dense, "n=%d spread=%d ascending=%v", n, spread, ascending)
 					hashed := hashJoin(k, len(w), len(g), workers)
 					require.Equal(t, hashed.wantOf, dense.wantOf, "n=%d spread=%d ascending=%v workers=%d", n, spread, ascending, workers)
-					require.Equal(t, hashed.wantMore, dense.wantMore)
-					require.Equal(t, hashed.gotOnly, dense.gotOnly)
+					require.Equal(t, hashed.wantHead, dense.wantHead)
+					require.Equal(t, hashed.gotHead, dense.gotHead)
 				}
 			}
 		}
@@ -192,5 +192,78 @@ func TestKeyedCompareByEitherJoin(t *testing.T) {
 	}
 	for j := range dense.Duplicates.Keys {
 		require.Equal(t, sparse.Duplicates.Keys[j].Rows, dense.Duplicates.Keys[j].Rows)
+	}
+}
+
+// TestPartitionInTwoPasses checks the two-pass partitioning (more
+// partitions than one scatter pass writes to) against its definition:
+// every row once, in the partition its hash's top bits name, in row order.
+func TestPartitionInTwoPasses(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	w := make([]int64, 5000)
+	for i := range w {
+		w[i] = rng.Int64N(1 << 40)
+	}
+	for _, bitsP := range []uint{0, 3, radixBits, radixBits + 1, radixBits + 4} {
+		p := partition(intKeys(t, w, w), WantSide, len(w), bitsP)
+		require.Len(t, p.start, 1<<bitsP+1)
+		seen := make([]bool, len(w))
+		for q := 0; q < 1<<bitsP; q++ {
+			last := int32(-1)
+			for e := p.start[q]; e < p.start[q+1]; e++ {
+				r := p.row[e]
+				require.Greater(t, r, last, "rows in order within partition %d", q)
+				last = r
+				require.False(t, seen[r])
+				seen[r] = true
+				h := mix(uint64(w[r]))
+				require.Equal(t, h, p.h[e])
+				if bitsP > 0 {
+					require.Equal(t, uint64(q), h>>(64-bitsP), "row %d in partition %d", r, q)
+				}
+			}
+		}
+		require.NotContains(t, seen, false)
+	}
+}
+
+// TestHashJoinAnyPartitioning joins with repeated keys on both sides and
+// keys on one side only, in one, few and many partitions (two passes):
+// the result must not depend on the partitioning.
+func TestHashJoinAnyPartitioning(t *testing.T) {
+	rng := rand.New(rand.NewPCG(43, 44))
+	w, g := make([]int64, 3000), make([]int64, 3200)
+	for i := range w {
+		w[i] = rng.Int64N(2000) * 7919
+	}
+	for i := range g {
+		g[i] = rng.Int64N(2100) * 7919
+	}
+	k := intKeys(t, w, g)
+	base := hashJoinBits(k, len(w), len(g), 1, 0)
+	require.NotNil(t, base.wantHead, "want repeats keys")
+	require.NotNil(t, base.gotHead, "got repeats keys")
+	for _, bitsP := range []uint{1, 5, radixBits + 2} {
+		for _, workers := range []int{1, 2} {
+			jn := hashJoinBits(k, len(w), len(g), workers, bitsP)
+			require.Equal(t, base.wantOf, jn.wantOf, "bits %d", bitsP)
+			require.Equal(t, base.wantHead, jn.wantHead)
+			require.Equal(t, base.gotHead, jn.gotHead)
+		}
+	}
+	// The heads are the first rows with each key.
+	first := map[int64]int32{}
+	for i, v := range w {
+		if _, ok := first[v]; !ok {
+			first[v] = int32(i)
+		}
+		require.Equal(t, first[v], base.wantHead[i])
+	}
+	for j, v := range g {
+		f, ok := first[v]
+		if !ok {
+			f = -1
+		}
+		require.Equal(t, f, base.wantOf[j])
 	}
 }

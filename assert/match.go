@@ -2,7 +2,6 @@ package assert
 
 import (
 	"hash/maphash"
-	"maps"
 	"math"
 	"math/bits"
 	"runtime"
@@ -183,6 +182,12 @@ func (cc *colCmp) eqSides(a Side, i int, b Side, j int) bool {
 // partitionRows is about how many rows of a side a partition holds.
 const partitionRows = 1 << 12
 
+// radixBits is the widest fan-out of one scatter pass: 2^radixBits
+// partitions. Writing to more places at once (two arrays each) overflows
+// the processor's write buffers and TLB, and a larger table is then
+// partitioned in two passes, so that the work grows linearly with the rows.
+const radixBits = 8
+
 // partitioned holds one side's rows sorted by partition: hashes and row
 // indexes, with start[p] the first entry of partition p.
 type partitioned struct {
@@ -191,48 +196,62 @@ type partitioned struct {
 	start []int
 }
 
-// partition hashes the n rows of a side twice (once to count, once to
-// place), so no per-row hash array outlives the scatter.
+// partitionBits returns how many top bits of the hash choose a partition
+// for n rows: partitions of about partitionRows rows.
+func partitionBits(n int) uint {
+	bits := uint(0)
+	for (n>>bits) > partitionRows && bits < 20 {
+		bits++
+	}
+	return bits
+}
+
+// partition scatters the n rows of a side by the top bitsP bits of their
+// hashes, keeping rows in order within each partition. A first pass
+// scatters by the top bits (at most radixBits of them), hashing the rows
+// twice (once to count, once to place) so that no per-row hash array
+// outlives the scatter; a second pass refines each first partition by the
+// remaining bits.
 func partition(k *rowKeys, side Side, n int, bitsP uint) *partitioned {
+	b1 := min(bitsP, radixBits)
+	var out *partitioned
 	if k.wInts != nil {
-		return partitionInts(pick(side == WantSide, k.wInts, k.gInts), bitsP)
-	}
-	np := 1 << bitsP
-	counts := make([]int, np+1)
-	buf := make([]uint64, min(hashBlock, max(n, 1)))
-	part := func(h uint64) uint64 {
-		if bitsP == 0 {
-			return 0
+		out = partitionInts(pick(side == WantSide, k.wInts, k.gInts), b1)
+	} else {
+		np := 1 << b1
+		counts := make([]int, np+1)
+		buf := make([]uint64, min(hashBlock, max(n, 1)))
+		shift := 64 - b1 // a shift by 64 gives 0: one partition
+		for from := 0; from < n; from += hashBlock {
+			hs := buf[:min(hashBlock, n-from)]
+			k.hash(side, from, hs)
+			for _, h := range hs {
+				counts[h>>shift+1]++
+			}
 		}
-		return h >> (64 - bitsP)
-	}
-	for from := 0; from < n; from += hashBlock {
-		hs := buf[:min(hashBlock, n-from)]
-		k.hash(side, from, hs)
-		for _, h := range hs {
-			counts[part(h)+1]++
+		for p := 1; p <= np; p++ {
+			counts[p] += counts[p-1]
 		}
-	}
-	for p := 1; p <= np; p++ {
-		counts[p] += counts[p-1]
-	}
-	out := &partitioned{h: make([]uint64, n), row: make([]int32, n), start: append([]int(nil), counts...)}
-	next := counts[:np]
-	for from := 0; from < n; from += hashBlock {
-		hs := buf[:min(hashBlock, n-from)]
-		k.hash(side, from, hs)
-		for i, h := range hs {
-			p := part(h)
-			at := next[p]
-			next[p]++
-			out.h[at], out.row[at] = h, int32(from+i)
+		out = &partitioned{h: make([]uint64, n), row: make([]int32, n), start: append([]int(nil), counts...)}
+		sc := newScatter(out, counts[:np])
+		for from := 0; from < n; from += hashBlock {
+			hs := buf[:min(hashBlock, n-from)]
+			k.hash(side, from, hs)
+			for i, h := range hs {
+				sc.put(h>>shift, h, int32(from+i))
+			}
 		}
+		sc.flush()
+	}
+	if bitsP > b1 {
+		out = refine(out, b1, bitsP-b1)
 	}
 	return out
 }
 
-// partitionInts is partition for a single int64 key without nulls, whose
-// hash is mix of the value: each pass is one loop over the values.
+// partitionInts is the first pass of partition for a single int64 key
+// without nulls, whose hash is mix of the value: each pass is one loop
+// over the values.
 func partitionInts(keys []int64, bitsP uint) *partitioned {
 	np := 1 << bitsP
 	shift := 64 - bitsP // a shift by 64 gives 0: one partition
@@ -244,30 +263,131 @@ func partitionInts(keys []int64, bitsP uint) *partitioned {
 		counts[p] += counts[p-1]
 	}
 	out := &partitioned{h: make([]uint64, len(keys)), row: make([]int32, len(keys)), start: append([]int(nil), counts...)}
-	next := counts[:np]
+	sc := newScatter(out, counts[:np])
 	for i, x := range keys {
 		h := mix(uint64(x))
-		p := h >> shift
-		at := next[p]
-		next[p] = at + 1
-		out.h[at], out.row[at] = h, int32(i)
+		sc.put(h>>shift, h, int32(i))
 	}
+	sc.flush()
 	return out
 }
 
-// joined is what joinRows found. A "first" row is the first row of its
-// side with its cells; all lists are in row order.
+// wcRows is how many entries a partition's staging buffer holds: a cache
+// line of hashes.
+const wcRows = 8
+
+// scatter writes entries to their partitions through a small staging
+// buffer per partition (software write-combining): the buffers stay in
+// the L1 cache, and each partition's output is written a cache line at a
+// time instead of one entry at a time to hundreds of places.
+type scatter struct {
+	out  *partitioned
+	next []int // per partition: where its next entry goes
+	bufs []wcBuf
+}
+
+type wcBuf struct {
+	h   [wcRows]uint64
+	row [wcRows]int32
+	n   int
+}
+
+func newScatter(out *partitioned, next []int) *scatter {
+	return &scatter{out: out, next: next, bufs: make([]wcBuf, len(next))}
+}
+
+// put adds entry (h, row) to partition p.
+func (s *scatter) put(p uint64, h uint64, row int32) {
+	b := &s.bufs[p]
+	b.h[b.n&(wcRows-1)], b.row[b.n&(wcRows-1)] = h, row
+	b.n++
+	if b.n == wcRows {
+		at := s.next[p]
+		copy(s.out.h[at:at+wcRows], b.h[:])
+		copy(s.out.row[at:at+wcRows], b.row[:])
+		s.next[p] = at + wcRows
+		b.n = 0
+	}
+}
+
+// flush writes what the staging buffers still hold.
+func (s *scatter) flush() {
+	for p := range s.bufs {
+		b := &s.bufs[p]
+		at := s.next[p]
+		copy(s.out.h[at:], b.h[:b.n])
+		copy(s.out.row[at:], b.row[:b.n])
+		s.next[p] = at + b.n
+		b.n = 0
+	}
+}
+
+// refine splits each of the 2^b1 partitions of p by the next b2 bits of
+// the hashes, in place, keeping the order of rows within each partition:
+// a first partition is copied aside (it fits in the cache) and scattered
+// back, so no second table-sized array is needed.
+func refine(p *partitioned, b1, b2 uint) *partitioned {
+	n1, n2 := 1<<b1, 1<<b2
+	start := make([]int, n1*n2+1)
+	shift := 64 - b1 - b2
+	mask := uint64(n2 - 1)
+	counts := make([]int, n2)
+	var th []uint64
+	var tr []int32
+	for q := range n1 {
+		lo, hi := p.start[q], p.start[q+1]
+		th = append(th[:0], p.h[lo:hi]...)
+		tr = append(tr[:0], p.row[lo:hi]...)
+		clear(counts)
+		for _, h := range th {
+			counts[h>>shift&mask]++
+		}
+		at := lo
+		for r := range n2 {
+			start[q*n2+r] = at
+			c := counts[r]
+			counts[r] = at
+			at += c
+		}
+		for e, h := range th {
+			r := h >> shift & mask
+			x := counts[r]
+			counts[r] = x + 1
+			p.h[x], p.row[x] = h, tr[e]
+		}
+	}
+	start[n1*n2] = len(p.h)
+	p.start = start
+	return p
+}
+
+// joined is what joinRows found. The head of a row is the first row of its
+// side with the same matching cells.
 type joined struct {
-	// wantOf[j] is, for got row j, the first want row with the same cells,
-	// or -1 when want has no such row.
+	// wantOf[j] is, for got row j, the head of the want rows with the same
+	// cells, or -1 when want has no such row.
 	wantOf []int32
-	// wantMore maps a first want row to the later want rows with its cells.
-	wantMore map[int32][]int32
-	// gotOnly maps the first got row of cells want lacks to the later got
-	// rows with them.
-	gotOnly map[int32][]int32
+	// wantHead[i] is the head of want row i; nil when no cells repeat on
+	// want's side (every row is its own head). gotHead likewise for got.
+	wantHead, gotHead []int32
 	// spare is the join's memory, free once the join is done.
 	spare spares
+}
+
+// heads turns a list of (row, head) pairs of the rows that are not heads
+// into the head of every one of n rows, nil when the list is empty.
+func heads(n int, dups []int32) []int32 {
+	if len(dups) == 0 {
+		return nil
+	}
+	out := make([]int32, n)
+	for i := range out {
+		out[i] = int32(i)
+	}
+	for t := 0; t < len(dups); t += 2 {
+		out[dups[t]] = dups[t+1]
+	}
+	return out
 }
 
 // joinRows groups the rows of both sides by their matching cells: a dense
@@ -286,10 +406,11 @@ func joinRows(k *rowKeys, nw, ng int) *joined {
 // hashJoin is joinRows by partitioned hash tables, for any matching
 // columns.
 func hashJoin(k *rowKeys, nw, ng, workers int) *joined {
-	bitsP := uint(0)
-	for (max(nw, ng)>>bitsP) > partitionRows && bitsP < 12 {
-		bitsP++
-	}
+	return hashJoinBits(k, nw, ng, workers, partitionBits(max(nw, ng)))
+}
+
+// hashJoinBits is hashJoin with 2^bitsP partitions.
+func hashJoinBits(k *rowKeys, nw, ng, workers int, bitsP uint) *joined {
 	var w, g *partitioned
 	if workers > 1 {
 		var wg sync.WaitGroup
@@ -301,34 +422,35 @@ func hashJoin(k *rowKeys, nw, ng, workers int) *joined {
 		w = partition(k, WantSide, nw, bitsP)
 		g = partition(k, GotSide, ng, bitsP)
 	}
-	out := &joined{wantOf: make([]int32, ng), wantMore: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
+	out := &joined{wantOf: make([]int32, ng)}
 	np := len(w.start) - 1
 	workers = min(workers, np)
-	parts := make([]*joined, workers)
+	parts := make([]*partitionJoin, workers)
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for t := range workers {
-		local := &joined{wantOf: out.wantOf, wantMore: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
-		parts[t] = local
+		pj := &partitionJoin{}
+		parts[t] = pj
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var j partitionJoin
 			for {
 				p := int(next.Add(1) - 1)
 				if p >= np {
 					return
 				}
-				j.run(k, w, g, p, local)
+				pj.run(k, w, g, p, out.wantOf)
 			}
 		}()
 	}
 	wg.Wait()
 	out.spare = spares{rows: g.row, words: w.h, buffers: g.h}
-	for _, local := range parts {
-		maps.Copy(out.wantMore, local.wantMore)
-		maps.Copy(out.gotOnly, local.gotOnly)
+	var wantDup, gotDup []int32
+	for _, pj := range parts {
+		wantDup = append(wantDup, pj.wantDup...)
+		gotDup = append(gotDup, pj.gotDup...)
 	}
+	out.wantHead, out.gotHead = heads(nw, wantDup), heads(ng, gotDup)
 	return out
 }
 
@@ -341,14 +463,19 @@ func workersFor(n int) int {
 	return 1
 }
 
-// partitionJoin holds the buffers one goroutine reuses across partitions.
+// partitionJoin holds what one goroutine keeps across partitions: its
+// buffers, and the rows it found not to be heads, as (row, head) pairs.
 type partitionJoin struct {
-	slots []int32 // want entries as e-wa ≥ 0, got entries as -(e-ga)-2; empty -1
+	slots    []int32 // want entries as e-wa ≥ 0, got entries as -(e-ga)-2; empty -1
+	firstGot []int32 // per want entry of the partition: its first got row, or -1
+	wantDup  []int32
+	gotDup   []int32
 }
 
-// run joins partition p, writing into out: wantOf of every got row of the
-// partition, and the partition's repeated cells.
-func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) {
+// run joins partition p: wantOf of every got row of the partition, and
+// the rows of the partition that are not heads. Rows come in row order
+// within a partition, so the first one met with some cells is the head.
+func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, wantOf []int32) {
 	wa, wb := w.start[p], w.start[p+1]
 	ga, gb := g.start[p], g.start[p+1]
 	// Room for every entry plus at least one empty slot, so probing ends;
@@ -361,6 +488,13 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) 
 	for i := range slots {
 		slots[i] = empty
 	}
+	if cap(pj.firstGot) < wb-wa {
+		pj.firstGot = make([]int32, wb-wa)
+	}
+	firstGot := pj.firstGot[:wb-wa]
+	for i := range firstGot {
+		firstGot[i] = -1
+	}
 	mask := uint64(size - 1)
 	for e := wa; e < wb; e++ {
 		h, row := w.h[e], w.row[e]
@@ -371,8 +505,7 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) 
 				break
 			}
 			if x >= 0 && w.h[wa+int(x)] == h && k.same(WantSide, int(w.row[wa+int(x)]), WantSide, int(row)) {
-				head := w.row[wa+int(x)]
-				out.wantMore[head] = append(out.wantMore[head], row)
+				pj.wantDup = append(pj.wantDup, row, w.row[wa+int(x)])
 				break
 			}
 		}
@@ -383,21 +516,26 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, out *joined) 
 			x := slots[s]
 			if x == empty {
 				slots[s] = -int32(e-ga) - 2
-				out.wantOf[row] = -1
+				wantOf[row] = -1
 				break
 			}
 			if x >= 0 {
 				we := wa + int(x)
 				if w.h[we] == h && k.same(WantSide, int(w.row[we]), GotSide, int(row)) {
-					out.wantOf[row] = w.row[we]
+					wantOf[row] = w.row[we]
+					if f := firstGot[x]; f < 0 {
+						firstGot[x] = row
+					} else {
+						pj.gotDup = append(pj.gotDup, row, f)
+					}
 					break
 				}
 				continue
 			}
 			ge := ga + int(-x-2)
 			if g.h[ge] == h && k.same(GotSide, int(g.row[ge]), GotSide, int(row)) {
-				out.gotOnly[g.row[ge]] = append(out.gotOnly[g.row[ge]], row)
-				out.wantOf[row] = -1
+				pj.gotDup = append(pj.gotDup, row, g.row[ge])
+				wantOf[row] = -1
 				break
 			}
 		}
@@ -506,7 +644,7 @@ func denseJoin(k *rowKeys, workers int) *joined {
 			order[set.rank(uint64(x)-uint64(lo))] = int32(i)
 		}
 	}
-	out := &joined{wantOf: make([]int32, len(g)), wantMore: map[int32][]int32{}, gotOnly: map[int32][]int32{}}
+	out := &joined{wantOf: make([]int32, len(g))}
 	lacking := make([]int, workers)
 	split(workers, len(g), func(t, a, b int) {
 		wantOf, none := out.wantOf[a:b], 0
@@ -533,6 +671,7 @@ func denseJoin(k *rowKeys, workers int) *joined {
 	if total > denseLacking+len(g)/64 {
 		return nil // grouping got's own values is the general join's work
 	}
+	var gotDup []int32
 	if total > 1 {
 		first := make(map[int64]int32, total)
 		for j, r := range out.wantOf {
@@ -540,13 +679,52 @@ func denseJoin(k *rowKeys, workers int) *joined {
 				continue
 			}
 			if f, ok := first[g[j]]; ok {
-				out.gotOnly[f] = append(out.gotOnly[f], int32(j))
+				gotDup = append(gotDup, int32(j), f)
 			} else {
 				first[g[j]] = int32(j)
 			}
 		}
 	}
+	gotDup = append(gotDup, repeatedPartners(out.wantOf, len(w))...)
+	out.gotHead = heads(len(g), gotDup)
 	return out
+}
+
+// repeatedPartners returns, as (row, head) pairs, the got rows whose want
+// partner an earlier got row already has (head: the first such got row).
+// A bitmap of want's rows finds whether there are any at all.
+func repeatedPartners(wantOf []int32, nw int) []int32 {
+	seen := make([]uint64, (nw+63)/64)
+	repeated := false
+	for _, r := range wantOf {
+		if r < 0 {
+			continue
+		}
+		if bit := uint64(1) << uint(r&63); seen[r>>6]&bit != 0 {
+			repeated = true
+			break
+		} else {
+			seen[r>>6] |= bit
+		}
+	}
+	if !repeated {
+		return nil
+	}
+	first := make([]int32, nw)
+	for i := range first {
+		first[i] = -1
+	}
+	var dups []int32
+	for j, r := range wantOf {
+		switch {
+		case r < 0:
+		case first[r] < 0:
+			first[r] = int32(j)
+		default:
+			dups = append(dups, int32(j), first[r])
+		}
+	}
+	return dups
 }
 
 // denseWord is 64 values of a dense join's span: which are want's, and
@@ -566,46 +744,120 @@ func (s denseSet) rank(b uint64) int32 {
 	return int32(d.before) + int32(bits.OnesCount64(d.bits&(1<<(b&63)-1)))
 }
 
-// firstPartners returns, for each of nw want rows, the first got row with
-// its cells (-1 for none, and for want rows that are not first) and the
-// later got rows of each first want row; it sets wantOf of those later
-// rows to -1, so that wantOf names first got rows only.
-func firstPartners(jn *joined, nw int, spare []int32) (first []int32, later map[int32][]int32) {
-	first = spare
-	if len(first) < nw {
-		first = make([]int32, nw)
+// groups is a grouping of rows in compressed sparse row form: the rows
+// of the group whose head is row h are rows[start[h]:start[h]+size[h]], in
+// row order. A nil head means every row is a group of its own.
+type groups struct {
+	head  []int32
+	start []int32
+	size  []int32
+	rows  []int32
+}
+
+// newGroups groups rows 0…len(head)-1 by their heads (head[h] == h for a
+// head row), by counting and prefix sums.
+func newGroups(head []int32) *groups {
+	g := &groups{head: head}
+	if head == nil {
+		return g
 	}
-	first = first[:nw]
-	for i := range first {
-		first[i] = -1
+	n := len(head)
+	g.size = make([]int32, n)
+	for _, h := range head {
+		g.size[h]++
 	}
-	later = map[int32][]int32{}
-	for j, i := range jn.wantOf {
-		switch {
-		case i < 0:
-		case first[i] < 0:
-			first[i] = int32(j)
-		default:
-			later[i] = append(later[i], int32(j))
-			jn.wantOf[j] = -1
+	g.start = make([]int32, n)
+	at := int32(0)
+	for i, h := range head {
+		if h == int32(i) {
+			g.start[i] = at
+			at += g.size[i]
 		}
 	}
-	return first, later
+	g.rows = make([]int32, n)
+	fill := make([]int32, n)
+	for i, h := range head {
+		g.rows[g.start[h]+fill[h]] = int32(i)
+		fill[h]++
+	}
+	return g
+}
+
+// count returns how many rows the group of head h has.
+func (g *groups) count(h int32) int32 {
+	if g.head == nil {
+		return 1
+	}
+	return g.size[h]
+}
+
+// member returns row t of the group of head h.
+func (g *groups) member(h, t int32) int32 {
+	if g.head == nil {
+		return h
+	}
+	return g.rows[g.start[h]+t]
+}
+
+// members returns the rows of the group of head h.
+func (g *groups) members(h int32) []int32 {
+	if g.head == nil {
+		return []int32{h}
+	}
+	return g.rows[g.start[h] : g.start[h]+g.size[h]]
+}
+
+// repeated calls f with each group of more than one row, in the order of
+// their heads.
+func (g *groups) repeated(f func(rows []int32)) {
+	if g.head == nil {
+		return
+	}
+	for i, h := range g.head {
+		if h == int32(i) && g.size[i] > 1 {
+			f(g.members(h))
+		}
+	}
 }
 
 // pairInOrder pairs the rows of each group in order of appearance: the
-// i-th want row with the i-th got row. It returns each want row's partner
-// (-1 for none) and the later got rows of each first want row, and leaves
-// in jn.wantOf each got row's partner (-1 for none).
-func pairInOrder(jn *joined, nw int) (gOf []int32, later map[int32][]int32) {
-	gOf, later = firstPartners(jn, nw, jn.spare.rows)
-	for head, rows := range later {
-		more := jn.wantMore[head]
-		for t := 0; t < len(rows) && t < len(more); t++ {
-			gOf[more[t]], jn.wantOf[rows[t]] = rows[t], more[t]
+// t-th got row whose cells want has with the t-th want row with those
+// cells. It returns each want row's partner (-1 for none) and the groups
+// of want's rows, and leaves in jn.wantOf each got row's partner (-1 for
+// none).
+func pairInOrder(jn *joined, nw int) (gOf []int32, wg *groups) {
+	gOf = jn.spare.rows
+	if len(gOf) < nw {
+		gOf = make([]int32, nw)
+	}
+	gOf = gOf[:nw]
+	for i := range gOf {
+		gOf[i] = -1
+	}
+	wg = newGroups(jn.wantHead)
+	if jn.wantHead == nil && jn.gotHead == nil {
+		for j, i := range jn.wantOf {
+			if i >= 0 {
+				gOf[i] = int32(j)
+			}
+		}
+		return gOf, wg
+	}
+	taken := make([]int32, nw) // got rows met so far, per want head
+	for j, h := range jn.wantOf {
+		if h < 0 {
+			continue
+		}
+		t := taken[h]
+		taken[h]++
+		if t < wg.count(h) {
+			i := wg.member(h, t)
+			gOf[i], jn.wantOf[j] = int32(j), i
+		} else {
+			jn.wantOf[j] = -1
 		}
 	}
-	return gOf, later
+	return gOf, wg
 }
 
 // matchByKey pairs rows with equal keys, in order of appearance, and
@@ -614,7 +866,8 @@ func (c *comparison) matchByKey() {
 	nw, ng := c.want.NumRows(), c.got.NumRows()
 	k := newRowKeys(c.keyCols)
 	jn := joinRows(k, nw, ng)
-	gOf, later := pairInOrder(jn, nw)
+	gotHead := jn.gotHead
+	gOf, wg := pairInOrder(jn, nw)
 	c.pairs = pairing{n: nw, g: gOf}
 	if workers := runtime.GOMAXPROCS(0); nw*len(c.cols) >= parallelCells && workers > 1 {
 		c.reorder = newReorder(jn.wantOf, nw, jn.spare, workers)
@@ -630,33 +883,8 @@ func (c *comparison) matchByKey() {
 		}
 	}
 	// Repeated keys: want's in order of first appearance, then got's.
-	for _, h := range sortedKeys(jn.wantMore) {
-		c.addDuplicate(WantSide, append([]int32{h}, jn.wantMore[h]...))
-	}
-	type gotDup struct {
-		first int32
-		rows  []int32
-	}
-	var gd []gotDup
-	for h, more := range later {
-		gd = append(gd, gotDup{gOf[h], append([]int32{gOf[h]}, more...)})
-	}
-	for first, more := range jn.gotOnly {
-		gd = append(gd, gotDup{first, append([]int32{first}, more...)})
-	}
-	slices.SortFunc(gd, func(a, b gotDup) int { return int(a.first) - int(b.first) })
-	for _, x := range gd {
-		c.addDuplicate(GotSide, x.rows)
-	}
-}
-
-func sortedKeys(m map[int32][]int32) []int32 {
-	out := make([]int32, 0, len(m))
-	for h := range m {
-		out = append(out, h)
-	}
-	slices.Sort(out)
-	return out
+	wg.repeated(func(rows []int32) { c.addDuplicate(WantSide, rows) })
+	newGroups(gotHead).repeated(func(rows []int32) { c.addDuplicate(GotSide, rows) })
 }
 
 func (c *comparison) addDuplicate(side Side, rows []int32) {
@@ -677,6 +905,38 @@ func (c *comparison) addDuplicate(side Side, rows []int32) {
 		dk.Rows = append(dk.Rows, int(r))
 	}
 	d.Keys = append(d.Keys, dk)
+}
+
+// byWant is a grouping of got rows by the want head they share cells
+// with: the got rows of want head h are rows[start[h]:start[h]+size[h]],
+// in row order.
+type byWant struct {
+	start, size, rows []int32
+}
+
+// groupsBy groups the got rows j with wantOf[j] ≥ 0 by wantOf[j], one of
+// nw want rows.
+func groupsBy(wantOf []int32, nw int) *byWant {
+	g := &byWant{start: make([]int32, nw), size: make([]int32, nw)}
+	for _, h := range wantOf {
+		if h >= 0 {
+			g.size[h]++
+		}
+	}
+	at := int32(0)
+	for h := range g.size {
+		g.start[h] = at
+		at += g.size[h]
+	}
+	g.rows = make([]int32, at)
+	fill := make([]int32, nw)
+	for j, h := range wantOf {
+		if h >= 0 {
+			g.rows[g.start[h]+fill[h]] = int32(j)
+			fill[h]++
+		}
+	}
+	return g
 }
 
 // multisetGroupLimit is the largest group (rows a side) that AnyRowOrder
@@ -708,7 +968,10 @@ func (c *comparison) matchAsMultiset() {
 		gOf, _ = pairInOrder(jn, nw)
 		gotOf = jn.wantOf
 	} else {
-		first, later := firstPartners(jn, nw, nil)
+		// Each group: want's rows with some cells and got's rows with
+		// them (grouped by the head of want's rows).
+		wg := newGroups(jn.wantHead)
+		gg := groupsBy(jn.wantOf, nw)
 		gOf = make([]int32, nw)
 		for i := range gOf {
 			gOf[i] = -1
@@ -725,14 +988,12 @@ func (c *comparison) matchAsMultiset() {
 			}
 			return true
 		}
-		for head, j := range first {
-			if j < 0 {
+		for i := range nw {
+			h := int32(i)
+			if (wg.head != nil && wg.head[i] != h) || gg.size[i] == 0 {
 				continue
 			}
-			h := int32(head)
-			ws := append([]int32{h}, jn.wantMore[h]...)
-			gs := append([]int32{j}, later[h]...)
-			pairGroup(ws, gs, near, loose, gOf, gotOf)
+			pairGroup(wg.members(h), gg.rows[gg.start[i]:gg.start[i]+gg.size[i]], near, loose, gOf, gotOf)
 		}
 	}
 	var pw, pg []int32
