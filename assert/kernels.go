@@ -157,28 +157,53 @@ func (c *comparison) compareColumns() []*colResult {
 			perCol[j] = append(perCol[j], r)
 		}
 	}
-	workers = min(workers, len(tasks))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := range workers {
-		var sc *scratch
+	scratches := make([]*scratch, min(workers, len(tasks)))
+	for w := range scratches {
 		if c.reorder != nil {
-			sc = &scratch{reorder: c.reorder, buf: c.reorder.buffer(w, workers)}
+			scratches[w] = &scratch{reorder: c.reorder, buf: c.reorder.buffer(w, len(scratches))}
 		}
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				t := int(next.Add(1) - 1)
-				if t >= len(tasks) {
-					return
-				}
-				tk := tasks[t]
-				c.cols[tk.col].compare(c.pairs.sub(tk.lo, tk.hi), tk.res, sc)
-			}
-		}()
 	}
-	wg.Wait()
+	run := func(tasks []task) {
+		var next atomic.Int64
+		var wg sync.WaitGroup
+		for _, sc := range scratches[:min(len(scratches), len(tasks))] {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for {
+					t := int(next.Add(1) - 1)
+					if t >= len(tasks) {
+						return
+					}
+					tk := tasks[t]
+					c.cols[tk.col].compare(c.pairs.sub(tk.lo, tk.hi), tk.res, sc)
+				}
+			}()
+		}
+		wg.Wait()
+	}
+	if ro := c.reorder; ro != nil && len(ro.byRange) > c.cfg.sweepFrom {
+		// Many ranges: a column whose got values are 8 bytes is first
+		// swept into the pairs' order, then its ranges are compared.
+		for len(tasks) > 0 {
+			col := tasks[0].col
+			end := 1
+			for end < len(tasks) && tasks[end].col == col {
+				end++
+			}
+			got, ok := c.cols[col].sweepable()
+			if ok {
+				ro.sweep(got)
+			}
+			for _, sc := range scratches {
+				sc.swept = ok
+			}
+			run(tasks[:end])
+			tasks = tasks[end:]
+		}
+	} else {
+		run(tasks)
+	}
 	for j, parts := range perCol {
 		for _, r := range parts {
 			results[j].merge(r)
@@ -194,11 +219,69 @@ func (c *comparison) compareColumns() []*colResult {
 // buffer that stays in cache) and then compare it with want's values in one
 // sequential pass. On large tables this is several times faster than
 // reading got's cells at random.
+//
+// With many ranges (tables of millions of rows) each range's pairs are
+// spread thinly over got, and reading them range by range reads every
+// cache line of got's column several times over. Then a column of 8-byte
+// values is first swept: got's values are read once, in row order, and
+// written into a list in the order of the pairs (sweep), which each range
+// reads straight through; the work grows linearly with the rows.
 type reorder struct {
 	// byRange[r] lists the pairs of want rows r*taskSlots.. as
 	// got row<<32 | (want row − r*taskSlots), in ascending got row order.
 	byRange [][]uint64
 	bufs    []uint64 // spare memory for the per-goroutine buffers
+
+	// For the sweep: wantOf (got row → want row or -1), the runs of got
+	// rows the pairs were listed by (workers of them) with where each
+	// run's pairs of each range start (at[t][r]), where each range's
+	// pairs start (starts[r]), and the swept values.
+	wantOf  []int32
+	workers int
+	at      [][]int
+	starts  []int
+	vals    []uint64
+}
+
+// sweepRanges is how many ranges a keyed comparison has before columns
+// are swept.
+const sweepRanges = 8
+
+// sweep reads got's 8-byte values (as bits) in row order and writes each
+// paired one at its pair's place in ro.vals.
+func (ro *reorder) sweep(got []uint64) {
+	if ro.vals == nil {
+		ro.vals = make([]uint64, ro.starts[len(ro.starts)-1])
+	}
+	split(ro.workers, len(ro.wantOf), func(t, lo, hi int) {
+		next := slices.Clone(ro.at[t])
+		for j := lo; j < hi; j++ {
+			if k := int(ro.wantOf[j]); k >= 0 {
+				r := k / taskSlots
+				ro.vals[next[r]] = got[j]
+				next[r]++
+			}
+		}
+	})
+}
+
+// sweepable returns got's values as 8-byte words when the column's
+// kernels read them that way: float64, int64, and timestamps of the same
+// unit compared exactly.
+func (cc *colCmp) sweepable() ([]uint64, bool) {
+	var v []int64
+	switch {
+	case cc.class == classFloat:
+		f := cc.gc.Float64s()
+		return unsafe.Slice((*uint64)(unsafe.Pointer(unsafe.SliceData(f))), len(f)), true
+	case cc.class == classInt && cc.wc.NullCount() == 0 && cc.gc.NullCount() == 0:
+		v = cc.gc.Int64s()
+	case cc.class == classTime && cc.sameUnit() && !cc.hasTT && cc.wc.NullCount() == 0 && cc.gc.NullCount() == 0:
+		v = cc.gc.Int64s()
+	default:
+		return nil, false
+	}
+	return unsafe.Slice((*uint64)(unsafe.Pointer(unsafe.SliceData(v))), len(v)), true
 }
 
 // pairAt splits an entry of reorder.byRange into the got row and the want
@@ -266,6 +349,7 @@ func newReorder(wantOf []int32, nw int, sp spares, workers int) *reorder {
 	for r := range ro.byRange {
 		ro.byRange[r] = flat[starts[r]:starts[r+1]:starts[r+1]]
 	}
+	ro.wantOf, ro.workers, ro.at, ro.starts = wantOf, workers, at, starts
 	return ro
 }
 
@@ -301,6 +385,7 @@ type scratch struct {
 	buf     []uint64
 	bytes   []byte   // string cells that do not fit in buf
 	valid   []uint64 // got's validity in want order
+	swept   bool     // the current column's values are in reorder.vals
 }
 
 // gotInWantOrder scatters got's values paired into the task's range into
@@ -313,7 +398,19 @@ func gotInWantOrder[T int8 | int16 | int32 | int64 | float64](sc *scratch, p pai
 	if clearFirst {
 		clear(out)
 	}
-	for _, e := range sc.reorder.byRange[p.base/taskSlots] {
+	r := p.base / taskSlots
+	if sc.swept && unsafe.Sizeof(zero) == 8 {
+		// The values were swept into the pairs' order.
+		ro := sc.reorder
+		vals := ro.vals[ro.starts[r]:ro.starts[r+1]]
+		words := sc.buf[:p.n]
+		for e, x := range ro.byRange[r] {
+			_, k := pairAt(x)
+			words[k] = vals[e]
+		}
+		return out
+	}
+	for _, e := range sc.reorder.byRange[r] {
 		j, k := pairAt(e)
 		out[k] = got[j]
 	}

@@ -20,6 +20,11 @@ import (
 // get listings built on demand from small tables (0) or held ones.
 func holdUpTo(n int) Option { return Option{func(c *config) { c.holdUpTo = n }} }
 
+// sweepFrom sets how many ranges a keyed comparison has before its
+// columns are swept (see reorder), so that tests take that way on tables
+// of a few ranges.
+func sweepFrom(n int) Option { return Option{func(c *config) { c.sweepFrom = n }} }
+
 func TestListOf(t *testing.T) {
 	var empty Listing[int]
 	require.Equal(t, 0, empty.Len())

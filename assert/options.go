@@ -55,6 +55,7 @@ type config struct {
 	nanIsNull   bool
 	limit       int
 	holdUpTo    int        // longest listing built at once (holdListing; tests change it)
+	sweepFrom   int        // keyed ranges above which columns are swept (sweepRanges; tests change it)
 	named       []namedCol // every column an option names, for the unknown-column check
 	problems    []string   // bad option values, found while applying
 }
@@ -66,12 +67,13 @@ type namedCol struct {
 
 func newConfig(opts []Option) *config {
 	c := &config{
-		tols:     map[string]floatRule{},
-		timeTols: map[string]time.Duration{},
-		norms:    map[string]TextNorm{},
-		ignore:   map[string]bool{},
-		limit:    DefaultListLimit,
-		holdUpTo: holdListing,
+		tols:      map[string]floatRule{},
+		timeTols:  map[string]time.Duration{},
+		norms:     map[string]TextNorm{},
+		ignore:    map[string]bool{},
+		limit:     DefaultListLimit,
+		holdUpTo:  holdListing,
+		sweepFrom: sweepRanges,
 	}
 	for _, o := range opts {
 		if o.apply != nil {
