@@ -2,6 +2,7 @@ package assert
 
 import (
 	"bufio"
+	"bytes"
 	"fmt"
 	"io"
 	"math"
@@ -483,6 +484,20 @@ func (w *textWriter) line(s string) {
 	w.out.WriteByte('\n')
 }
 
+// lineBytes writes prefix and then b as one line, as line does.
+func (w *textWriter) lineBytes(prefix string, b []byte) {
+	if prefix == "" && len(b) == 0 {
+		w.blank++
+		return
+	}
+	for ; w.blank > 0; w.blank-- {
+		w.out.WriteByte('\n')
+	}
+	w.out.WriteString(prefix)
+	w.out.Write(b)
+	w.out.WriteByte('\n')
+}
+
 func (w *textWriter) section(title string) {
 	w.line("")
 	w.line(w.bold(title))
@@ -538,6 +553,12 @@ type textTable struct {
 	moved   []int // whole columns written on lines of their own
 	more    string
 	leftOut bool
+	// Per column of vis: right-aligned, colour, never cut; and the
+	// buffer lines are made in.
+	kRight []bool
+	kPaint []string
+	kWhole []bool
+	buf    []byte
 }
 
 func (w *textWriter) newTable(head []string, right map[int]bool, paint map[int]string) *textTable {
@@ -674,7 +695,8 @@ func naturalWidths(n int, head []string, rows [][]string) []int {
 }
 
 // writeRow writes one line of the table, then the row's moved-out cells
-// (keys) on lines of their own, whole.
+// (keys) on lines of their own, whole. The line is put together in a
+// buffer the table reuses, so a long listing costs no allocation a row.
 func (t *textTable) writeRow(r []string, head bool) {
 	w := t.w
 	cell := func(j int) string {
@@ -683,17 +705,21 @@ func (t *textTable) writeRow(r []string, head bool) {
 		}
 		return ""
 	}
-	var b strings.Builder
-	b.WriteString("  ")
+	if len(t.kRight) != len(t.vis) {
+		t.kRight, t.kPaint, t.kWhole = make([]bool, len(t.vis)), make([]string, len(t.vis)), make([]bool, len(t.vis))
+		for k, j := range t.vis {
+			t.kRight[k], t.kPaint[k], t.kWhole[k] = t.right[j], t.paint[j], t.whole[j]
+		}
+	}
 	n := len(t.widths)
+	b := append(t.buf[:0], "  "...)
 	for k := 0; k < n; k++ {
 		var s string
 		right, paint := false, ""
 		switch {
 		case k < len(t.vis):
-			j := t.vis[k]
-			s, right, paint = cell(j), t.right[j], t.paint[j]
-			if !t.whole[j] {
+			s, right, paint = cell(t.vis[k]), t.kRight[k], t.kPaint[k]
+			if !t.kWhole[k] {
 				s = textwidth.Truncate(s, t.widths[k])
 			}
 		case head:
@@ -701,25 +727,34 @@ func (t *textTable) writeRow(r []string, head bool) {
 		default:
 			s = "…"
 		}
-		pad := textwidth.PadRight
-		if right {
-			pad = textwidth.PadLeft
-		}
+		pad := max(t.widths[k]-textwidth.Width(s), 0)
 		if k == n-1 && !right {
-			pad = func(s string, _ int) string { return s }
+			pad = 0
 		}
-		c := pad(s, t.widths[k])
+		code := ""
 		switch {
+		case !w.st.Color || (s == "" && pad == 0):
 		case head:
-			c = w.bold(c)
-		case paint != "":
-			c = w.paint(paint, c)
+			code = ansiBold
+		default:
+			code = paint
 		}
-		b.WriteString(c)
+		b = append(b, code...)
+		if right {
+			b = appendSpaces(b, pad)
+		}
+		b = append(b, s...)
+		if !right {
+			b = appendSpaces(b, pad)
+		}
+		if code != "" {
+			b = append(b, ansiReset...)
+		}
 		if k < n-1 {
-			b.WriteString("  ")
+			b = append(b, "  "...)
 		}
 	}
+	t.buf = b
 	var moved []string
 	if !head {
 		for _, j := range t.moved {
@@ -744,13 +779,24 @@ func (t *textTable) writeRow(r []string, head bool) {
 		if !t.below && len(t.moved) > 0 && !head {
 			prefix = "  " // the row's cells stand under its key
 		}
-		w.line(prefix + strings.TrimRight(b.String(), " "))
+		w.lineBytes(prefix, bytes.TrimRight(b, " "))
 	}
 	if t.below {
 		for _, m := range moved {
 			w.line("    " + m)
 		}
 	}
+}
+
+const spaces = "                                                                "
+
+// appendSpaces appends n spaces to b.
+func appendSpaces(b []byte, n int) []byte {
+	for n > len(spaces) {
+		b = append(b, spaces...)
+		n -= len(spaces)
+	}
+	return append(b, spaces[:n]...)
 }
 
 // fitWidths narrows the widest columns that may be cut (whole[k] false)

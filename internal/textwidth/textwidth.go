@@ -19,6 +19,9 @@ import (
 // The measuring is github.com/rivo/uniseg's, whose tables follow the
 // Unicode version it was built for.
 func Width(s string) int {
+	if printableASCII(s) {
+		return len(s) // one column a character, and clusters of one byte
+	}
 	n := 0
 	state := -1
 	for s != "" {
@@ -55,6 +58,9 @@ func Truncate(s string, w int) string {
 	if w <= 0 {
 		return ""
 	}
+	if printableASCII(s) {
+		return s[:w-1] + "…"
+	}
 	n := 0
 	var b strings.Builder
 	state := -1
@@ -70,4 +76,17 @@ func Truncate(s string, w int) string {
 	}
 	b.WriteString("…")
 	return b.String()
+}
+
+// printableASCII reports whether s holds only the printable ASCII
+// characters U+0020 to U+007E: each is a grapheme cluster of its own (UAX
+// #29 breaks between any two of them) one column wide, so the common case
+// needs no segmentation.
+func printableASCII(s string) bool {
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c < 0x20 || c > 0x7e {
+			return false
+		}
+	}
+	return true
 }

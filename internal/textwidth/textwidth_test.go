@@ -3,6 +3,7 @@ package textwidth
 import (
 	"testing"
 
+	"github.com/rivo/uniseg"
 	"github.com/stretchr/testify/require"
 )
 
@@ -65,4 +66,28 @@ func TestPadAndTruncate(t *testing.T) {
 	require.Equal(t, "ab…", Truncate("ab"+family+"cd", 4), "a ZWJ sequence is kept whole or left out")
 	require.Equal(t, "ab"+family+"…", Truncate("ab"+family+"cd", 5))
 	require.Equal(t, "PadRight: "+family+"   |", "PadRight: "+PadRight(family, 5)+"|")
+}
+
+// TestPrintableASCIIAsSegmented checks the shortcut for printable ASCII
+// against the segmentation it skips, on every printable character and
+// on strings with a control or a non-ASCII character.
+func TestPrintableASCIIAsSegmented(t *testing.T) {
+	var all []byte
+	for c := byte(0x20); c <= 0x7e; c++ {
+		all = append(all, c)
+	}
+	slow := func(s string) int {
+		n, state := 0, -1
+		for s != "" {
+			var w int
+			_, s, w, state = uniseg.FirstGraphemeClusterInString(s, state)
+			n += w
+		}
+		return n
+	}
+	for _, s := range []string{string(all), "house  tmax", "a\tb", "ab\x7f", "ab\x1b[1m", "Étang"} {
+		require.Equal(t, slow(s), Width(s), "%q", s)
+	}
+	require.Equal(t, "abc…", Truncate("abcdefgh", 4))
+	require.Equal(t, 4, Width(Truncate(string(all), 4)))
 }
