@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/fixtures"
 	"github.com/proofsheet/proofsheet/golden"
 	"github.com/proofsheet/proofsheet/internal/suggest"
 )
@@ -52,6 +53,9 @@ Options:
   --junit FILE       also write a JUnit XML report to FILE: one test case,
                      failed with the text diff when the tables differ
   --quiet            draw no progress bar
+  --by-file          WANT and GOT are folders: compare their table files
+                     pair by pair (by path below each folder), list each
+                     file's outcome, the diffs, and a summary line
 ` + engineHelp + `
 
 When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown
@@ -97,6 +101,7 @@ func runDiff(e *env, c *command, args []string) int {
 	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
 	junit := fs.String("junit", "", "")
 	quiet := fs.Bool("quiet", false, "")
+	byFile := fs.Bool("by-file", false, "")
 	var ef engineFlags
 	fs.StringVar(&ef.engine, "engine", "", "")
 	fs.StringVar(&ef.memoryLimit, "memory-limit", "", "")
@@ -181,6 +186,62 @@ func runDiff(e *env, c *command, args []string) int {
 			}
 		}
 		return "", false
+	}
+	if *byFile {
+		if ef.engine != "" {
+			return trouble(e, c, "--by-file reads the files in memory; it does not go with --engine")
+		}
+		if *format == "html" {
+			return trouble(e, c, "--by-file writes text, markdown or json, not html")
+		}
+		readOpts, err := rf.options()
+		if err != nil {
+			return trouble(e, c, "%v", err)
+		}
+		read := func(p string) (*fixtures.Table, error) {
+			t, _, err := fixtures.ReadFile(p, readOpts...)
+			return t, err
+		}
+		res, err := compareByFile(files[0], files[1], read, opts)
+		if err != nil {
+			return fail("%v", err)
+		}
+		write := func(w io.Writer) error {
+			switch *format {
+			case "json":
+				return res.writeJSON(w)
+			case "markdown":
+				return res.writeMarkdown(w)
+			}
+			return res.writeText(w, assert.TextStyle{Color: *out == "" && useColor(e, e.stdout), Flags: true})
+		}
+		if err := writeResultWith(e, *out, write); err != nil {
+			return fail("%v", err)
+		}
+		suite.cases, suite.took = nil, time.Since(start)
+		for _, f := range res.Files {
+			tc := junitCase{name: f.Path, class: "proofsheet.diff"}
+			switch f.Status {
+			case fileDiffers:
+				tc.detail = f.Diff.TextWith(assert.TextStyle{})
+				tc.failure = tc.detail
+			case fileOnlyWant, fileOnlyGot:
+				tc.failure = f.Path + ": " + strings.ReplaceAll(string(f.Status), "-", " ")
+			case fileUnreadble:
+				tc.errMsg = f.Err.Error()
+			}
+			suite.cases = append(suite.cases, tc)
+		}
+		if err := suite.write(*junit); err != nil {
+			return trouble(e, c, "%v", err)
+		}
+		switch {
+		case res.count(fileUnreadble) > 0:
+			return exitTrouble
+		case res.equal():
+			return exitSame
+		}
+		return exitDiffers
 	}
 	bar := newProgress(e, *quiet)
 	var d *assert.Diff

@@ -53,8 +53,10 @@ const readerHelp = `Reading (the same options in every command that reads tables
   --strict[=QUIRKS]  refuse what the readers otherwise read and report:
                      empty-name, repeated-name, bare-quote, nested
                      (comma-separated; all when none is named)
-  A FILE may be - (standard input, its format told by its bytes) or a .gz,
-  .zst or .bz2 file.`
+  A FILE may be - (standard input, its format told by its bytes), a .gz,
+  .zst or .bz2 file, a folder or a quoted glob ('out/*.csv'): the table
+  files of a folder read as one table in name order, key=value folders
+  (Hive-style partitions) adding typed columns.`
 
 // addReaderFlags defines the reader options on fs.
 func addReaderFlags(fs *flag.FlagSet) *readerFlags {
