@@ -19,20 +19,23 @@ type Mess string
 // (see fixtures.Parse), or the unquoted empty field for null.
 const MessNone Mess = ""
 
-// Number spellings. The examples spell 1234567.5 or -1234.5.
+// Number spellings. The examples spell 1234567.5 or -1234.5. Marks, signs
+// and date orders follow the column's locale (see Locale); a spelling the
+// locale does not use comes only with mixed sources, marked
+// MessMixedSources.
 const (
-	MessThousands      Mess = "thousands"            // 1,234,567.5
-	MessThousandsDot   Mess = "thousands-dot"        // 1.234.567,5
-	MessThousandsSpace Mess = "thousands-space"      // 1 234 567,5 with a space, NBSP or narrow NBSP
-	MessThousandsQuote Mess = "thousands-apostrophe" // 1'234'567.5 or 1’234’567.5
-	MessDecimalComma   Mess = "decimal-comma"        // 1234567,5
-	MessCurrency       Mess = "currency"             // $1,234.50  1.234,50 €  CHF 1'234.50
+	MessThousands      Mess = "thousands"            // grouped as the locale groups: 1,234,567.5 (en-US), 1.234.567,5 (de-DE)
+	MessThousandsDot   Mess = "thousands-dot"        // 1.234.567,5 as another source writes it (mixed sources only)
+	MessThousandsSpace Mess = "thousands-space"      // 1 234 567,5 with a space, NBSP or narrow NBSP (mixed sources only)
+	MessThousandsQuote Mess = "thousands-apostrophe" // 1'234'567.5 or 1’234’567.5 (mixed sources only)
+	MessDecimalComma   Mess = "decimal-comma"        // 1234567,5 where the locale's mark is a comma (else mixed sources)
+	MessCurrency       Mess = "currency"             // the locale's sign where it puts it: $1,234.50, 1.234,50 €
 	MessPercent        Mess = "percent"              // 12.5% for 0.125 (float64 columns)
-	MessParentheses    Mess = "parentheses"          // (1,234.50) for -1234.5
+	MessParentheses    Mess = "parentheses"          // (1,234.50) for -1234.5, where the locale's accounting format has them
 	MessUnicodeMinus   Mess = "unicode-minus"        // −1234.5 with U+2212 MINUS SIGN
 	MessTrailingMinus  Mess = "trailing-minus"       // 1234.5-
 	MessPlusSign       Mess = "plus-sign"            // +12
-	MessFullWidth      Mess = "full-width"           // １２３４．５ (U+FF10–U+FF19)
+	MessFullWidth      Mess = "full-width"           // １２３４．５ (U+FF10–U+FF19), ja-JP
 	MessExponent       Mess = "exponent"             // 1.2345e3, 1.2345E+03
 	MessLeadingZeros   Mess = "leading-zeros"        // 0012
 	MessTrailingZeros  Mess = "trailing-zeros"       // 12.50, 12.0
@@ -53,10 +56,10 @@ const (
 // Date and timestamp spellings. The examples spell 2024-01-31 (10:30).
 const (
 	MessDateSlash      Mess = "date-slash"      // 2024/01/31, 2024.01.31
-	MessDayFirst       Mess = "day-first"       // 31/01/2024, 31.01.2024, 31-01-2024
-	MessMonthFirst     Mess = "month-first"     // 01/31/2024, 1/31/2024
+	MessDayFirst       Mess = "day-first"       // 31/01/2024, 31.01.2024: locales whose dates run day-month-year
+	MessMonthFirst     Mess = "month-first"     // 01/31/2024, 1/31/2024: en-US
 	MessTwoDigitYear   Mess = "two-digit-year"  // 31/01/24 (see TwoDigitYear for the century)
-	MessMonthName      Mess = "month-name"      // 31 Jan 2024, Jan 31, 2024
+	MessMonthName      Mess = "month-name"      // Jan 31, 2024 (en-US), 31 Jan 2024 (en-GB)
 	MessCompactDate    Mess = "compact-date"    // 20240131, 20240131T103000
 	MessSerialDate     Mess = "serial-date"     // 45322, 45322.4375 (see SerialToTime)
 	MessEpochSeconds   Mess = "epoch-seconds"   // 1706697000
@@ -64,7 +67,7 @@ const (
 	MessMidnight       Mess = "midnight"        // 2024-01-31 00:00:00 in a date column
 	MessSpaceSeparator Mess = "space-separator" // 2024-01-31 10:30:00
 	MessUTCOffset      Mess = "utc-offset"      // 2024-01-31T16:00:00+05:30, the same instant
-	MessTwelveHour     Mess = "twelve-hour"     // 1/31/2024 10:30:00 AM
+	MessTwelveHour     Mess = "twelve-hour"     // 1/31/2024 10:30:00 AM: en-US
 )
 
 // Text spellings. Category cells stand for one of their levels; string
@@ -280,7 +283,9 @@ type Options struct {
 	// NullRate is the share of cells that are null (default 0.05; heavy 0.1).
 	NullRate float64
 	// MessRate is the share of non-null cells spelled messily (default
-	// light 0.15, heavy 0.5; none 0).
+	// light 0.15, heavy 0.5; none 0). Where the column's locale writes
+	// fractions with a decimal comma, every fraction gets it besides
+	// (mess decimal-comma), unless the column is plain or avoids it.
 	MessRate float64
 	// SentinelRate is the share of cells holding a sentinel instead of a
 	// value (default heavy 0.03, else 0).
