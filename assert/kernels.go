@@ -2,7 +2,6 @@ package assert
 
 import (
 	"bytes"
-	"encoding/binary"
 	"math/bits"
 	"runtime"
 	"slices"
@@ -447,71 +446,33 @@ func (cc *colCmp) compare(p pairing, r *colResult, sc *scratch) {
 	if p.n == 0 {
 		return
 	}
-	if cc.class == classFloat {
+	switch cc.class {
+	case classFloat:
 		cc.compareFloats(p, r, sc)
 		return
+	case classInt, classTime, classDate:
+		if cc.compareInts(p, r, sc) {
+			return
+		}
+	case classDecimal:
+		if cc.compareDecimals(p, r, sc) {
+			return
+		}
+	case classText:
+		if cc.wc.Kind() == fixtures.KindCategory && cc.gc.Kind() == fixtures.KindCategory {
+			cc.compareCategories(p, r, sc)
+			return
+		}
 	}
 	nulls := cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0
 	if p.w == nil && p.g == nil && (nulls || cc.class == classBool) && cc.compareNullableByPosition(p, r, sc) {
 		return
 	}
-	if nulls {
-		switch cc.class {
-		case classInt:
-			a, b := cc.wc.Int64s(), cc.gc.Int64s()
-			cc.compareNullable(p, r, func(wi, gi int) bool { return a[wi] == b[gi] })
-			return
-		case classDate:
-			if !cc.hasTT {
-				a, b := cc.wc.DaysSlice(), cc.gc.DaysSlice()
-				cc.compareNullable(p, r, func(wi, gi int) bool { return a[wi] == b[gi] })
-				return
-			}
-		}
-	} else {
-		switch cc.class {
-		case classInt, classTime:
-			if cc.class == classInt || (cc.wc.Type().Unit() == cc.gc.Type().Unit() && !cc.hasTT) {
-				compareExact(cc, cc.wc.Int64s(), cc.gc.Int64s(), p, r, sc)
-				return
-			}
-		case classDate:
-			if !cc.hasTT {
-				compareExact(cc, cc.wc.DaysSlice(), cc.gc.DaysSlice(), p, r, sc)
-				return
-			}
-		case classText:
-			if cc.wc.Kind() == fixtures.KindString && cc.gc.Kind() == fixtures.KindString && cc.norm == 0 {
-				cc.compareStrings(p, r, sc)
-				return
-			}
-			if cc.wc.Kind() == fixtures.KindCategory && cc.gc.Kind() == fixtures.KindCategory {
-				cc.compareCategories(p, r, sc)
-				return
-			}
-		}
+	if !nulls && cc.class == classText && cc.wc.Kind() == fixtures.KindString && cc.gc.Kind() == fixtures.KindString && cc.norm == 0 {
+		cc.compareStrings(p, r, sc)
+		return
 	}
 	cc.compareCells(p, r)
-}
-
-// compareNullable is the loop for columns with nulls whose raw values
-// decide equality when both cells are present (same is true only for equal
-// cells): pairs with a null, or whose raw values differ, go through eq.
-func (cc *colCmp) compareNullable(p pairing, r *colResult, same func(wi, gi int) bool) {
-	w, g := cc.wc, cc.gc
-	for k := 0; k < p.n; k++ {
-		wi, gi := p.at(k)
-		if gi < 0 {
-			continue
-		}
-		wn, gn := w.IsNull(wi), g.IsNull(gi)
-		if wn && gn {
-			continue
-		}
-		if wn || gn || !same(wi, gi) {
-			cc.slowCell(wi, gi, p.base+k, r)
-		}
-	}
 }
 
 // compareCells is the general loop: one cell at a time through eq.
@@ -543,10 +504,6 @@ func (cc *colCmp) slowCell(wi, gi, slot int, r *colResult) {
 	}
 }
 
-// bulkChunk is how many bytes of raw values are checked at once with a
-// memory comparison before looking at single values.
-const bulkChunk = 2048
-
 // asBytes views a slice of fixed-size numbers as its bytes.
 func asBytes[T int8 | int16 | int32 | int64 | uint64 | float64](s []T) []byte {
 	if len(s) == 0 {
@@ -555,165 +512,12 @@ func asBytes[T int8 | int16 | int32 | int64 | uint64 | float64](s []T) []byte {
 	return unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(s))), len(s)*int(unsafe.Sizeof(s[0])))
 }
 
-// diffRuns calls each(k) for the positions k of a and b (rows paired by
-// position) whose raw bytes may differ: a superset of the differing
-// positions, so each must check. Chunks of bulkChunk bytes that are
-// identical are skipped with one memory comparison; in the others, eight
-// bytes are compared at a time and each is called for the elements of the
-// words that differ.
-func diffRuns[T int8 | int16 | int32 | int64 | float64](a, b []T, each func(k int)) {
-	if len(a) == 0 {
-		return
-	}
-	size := int(unsafe.Sizeof(a[0]))
-	if size == 8 {
-		// Eight-byte values: compare them as words directly, as fast as
-		// a memory comparison and without reading a differing chunk twice.
-		diffWords(unsafe.Slice((*uint64)(unsafe.Pointer(unsafe.SliceData(a))), len(a)),
-			unsafe.Slice((*uint64)(unsafe.Pointer(unsafe.SliceData(b))), len(a)), each)
-		return
-	}
-	ab, bb := asBytes(a), asBytes(b[:len(a)])
-	for lo := 0; lo < len(ab); lo += bulkChunk {
-		hi := min(lo+bulkChunk, len(ab))
-		x, y := ab[lo:hi], bb[lo:hi]
-		if bytes.Equal(x, y) {
-			continue
-		}
-		words := len(x) / 8
-		o := 0
-		for ; o+32 <= words*8; o += 32 {
-			// (^ and | share a precedence level: the XORs need parentheses.)
-			if (le.Uint64(x[o:])^le.Uint64(y[o:]))|(le.Uint64(x[o+8:])^le.Uint64(y[o+8:]))|
-				(le.Uint64(x[o+16:])^le.Uint64(y[o+16:]))|(le.Uint64(x[o+24:])^le.Uint64(y[o+24:])) == 0 {
-				continue
-			}
-			for w := o; w < o+32; w += 8 {
-				if le.Uint64(x[w:]) != le.Uint64(y[w:]) {
-					for k := (lo + w) / size; k < (lo+w+8)/size; k++ {
-						each(k)
-					}
-				}
-			}
-		}
-		for k := (lo + o) / size; k < hi/size; k++ {
-			each(k)
-		}
-	}
-}
-
-var le = binary.LittleEndian
-
-// diffWords calls each(k) for every k where a[k] != b[k], eight words at a
-// time.
-func diffWords(a, b []uint64, each func(k int)) {
-	b = b[:len(a)]
-	k := 0
-	for ; k+8 <= len(a); k += 8 {
-		x, y := a[k:k+8:k+8], b[k:k+8:k+8]
-		if (x[0]^y[0])|(x[1]^y[1])|(x[2]^y[2])|(x[3]^y[3])|(x[4]^y[4])|(x[5]^y[5])|(x[6]^y[6])|(x[7]^y[7]) == 0 {
-			continue
-		}
-		for t := range 8 {
-			if x[t] != y[t] {
-				each(k + t)
-			}
-		}
-	}
-	for ; k < len(a); k++ {
-		if a[k] != b[k] {
-			each(k)
-		}
-	}
-}
-
-// compareExact compares columns whose cells are equal exactly when their
-// raw values are (int64, same-unit timestamps, dates).
-func compareExact[T int64 | int32](cc *colCmp, a, b []T, p pairing, r *colResult, sc *scratch) {
-	switch {
-	case p.w == nil && p.g == nil:
-		exactRun(cc, a[p.base:p.base+p.n], b[p.base:p.base+p.n], p.base, nil, r)
-	case sc.reordered(p):
-		exactRun(cc, a[p.base:p.base+p.n], gotInWantOrder(sc, p, b, false), p.base, p.g, r)
-	case p.w == nil:
-		a = a[p.base : p.base+p.n]
-		for k, gi := range p.g {
-			if gi >= 0 && a[k] != b[gi] {
-				cc.slowCell(p.base+k, int(gi), p.base+k, r)
-			}
-		}
-	default:
-		for k, wi := range p.w {
-			gi := p.g[k]
-			if a[wi] != b[gi] {
-				cc.slowCell(int(wi), int(gi), p.base+k, r)
-			}
-		}
-	}
-}
-
-// partner returns the got row of slot base+k: the slot's own row, or its
-// entry in gmap (negative: no partner).
-func partner(base, k int, gmap []int32) int {
-	if gmap == nil {
-		return base + k
-	}
-	return int(gmap[k])
-}
-
-// exactRun compares want values a with got values b lined up with them
-// (slot base+k holds a[k] and b[k]; gmap names the got rows, nil when they
-// are the slots themselves).
-func exactRun[T int64 | int32](cc *colCmp, a, b []T, base int, gmap []int32, r *colResult) {
-	diffRuns(a, b, func(k int) {
-		if a[k] != b[k] {
-			if gi := partner(base, k, gmap); gi >= 0 {
-				cc.slowCell(base+k, gi, base+k, r)
-			}
-		}
-	})
-}
-
 // compareFloats compares float64 columns through the float kernel,
 // lining got's values (and validity) up with want's first when rows are
 // not paired by position.
 func (cc *colCmp) compareFloats(p pairing, r *colResult, sc *scratch) {
-	a, b := cc.wc.Float64s(), cc.gc.Float64s()
-	wv, gv := validityOf(cc.wc), validityOf(cc.gc)
-	l := lineup{p: p}
-	switch {
-	case p.w == nil && p.g == nil:
-		l.wv, l.gv = wv.from(p.base), gv.from(p.base)
-		cc.floatRun(a[p.base:p.base+p.n], b[p.base:p.base+p.n], l, r)
-	case sc.reordered(p):
-		l.wv, l.paired = wv.from(p.base), pairedWords(p.g)
-		if gv.bits != nil {
-			l.gv = sc.validityInWantOrder(p, gv)
-		}
-		cc.floatRun(a[p.base:p.base+p.n], gotInWantOrder(sc, p, b, false), l, r)
-	default:
-		// Small keyed or multiset pairings: gather both sides.
-		wa, gb := make([]float64, p.n), make([]float64, p.n)
-		wbits, gbits := make([]uint64, (p.n+63)/64), make([]uint64, (p.n+63)/64)
-		for k := range p.n {
-			wi, gi := p.at(k)
-			wa[k] = a[wi]
-			if !cc.wc.IsNull(wi) {
-				wbits[k>>6] |= 1 << uint(k&63)
-			}
-			if gi >= 0 {
-				gb[k] = b[gi]
-				if !cc.gc.IsNull(gi) {
-					gbits[k>>6] |= 1 << uint(k&63)
-				}
-			}
-		}
-		l.wv, l.gv = validity{bits: asBytes(wbits)}, validity{bits: asBytes(gbits)}
-		if p.g != nil {
-			l.paired = pairedWords(p.g)
-		}
-		cc.floatRun(wa, gb, l, r)
-	}
+	a, b, l := lineUp(cc, p, sc, cc.wc.Float64s(), cc.gc.Float64s(), false)
+	cc.floatRun(a, b, l, r)
 }
 
 // pairedWords returns the pairing words of slots whose got rows are g
@@ -844,8 +648,18 @@ func shiftedEqual(a, b []int32) bool {
 	return true
 }
 
+// partner returns the got row of slot base+k: the slot's own row, or its
+// entry in gmap (negative: no partner).
+func partner(base, k int, gmap []int32) int {
+	if gmap == nil {
+		return base + k
+	}
+	return int(gmap[k])
+}
+
 // stringRun compares want cells (row k: aData[aOff[k]:aOff[k+1]]) with got
-// cells lined up with them, slot base+k (see exactRun for gmap). A long
+// cells lined up with them, slot base+k; gmap names the got rows, nil when
+// they are the slots themselves. A long
 // run whose offsets are identical (the usual case while the cells so far
 // have had the same lengths) and whose bytes are identical is equal as a
 // whole; otherwise chunks of rows are checked by length and bytes, and
@@ -887,8 +701,7 @@ func stringRun(cc *colCmp, aOff []int32, aData []byte, bOff []int32, bData []byt
 
 // compareCategories compares category columns by their codes: each
 // side's codes map to ids of the (normalised) level texts, so columns with
-// different level orders compare by text. Columns with nulls are handled
-// for rows paired by position only.
+// different level orders compare by text.
 func (cc *colCmp) compareCategories(p pairing, r *colResult, sc *scratch) {
 	wid, gid := cc.levelIDs()
 	w8, w16, w32 := cc.wc.CodeSlices()
@@ -904,7 +717,8 @@ func (cc *colCmp) compareCategories(p pairing, r *colResult, sc *scratch) {
 }
 
 // levelIDs numbers the (normalised) level texts of both sides and returns
-// each side's level → id.
+// each side's level → id. A side without levels (all cells null) gets one
+// id no level has, so that its codes (0) index something.
 func (cc *colCmp) levelIDs() (wid, gid []int32) {
 	ids := make(map[string]int32, cc.wc.NumLevels())
 	idOf := func(levels []string) []int32 {
@@ -918,6 +732,9 @@ func (cc *colCmp) levelIDs() (wid, gid []int32) {
 			}
 			out[i] = id
 		}
+		if len(out) == 0 {
+			out = []int32{-1}
+		}
 		return out
 	}
 	return idOf(cc.wc.Levels()), idOf(cc.gc.Levels())
@@ -928,11 +745,11 @@ type code interface{ int8 | int16 | int32 }
 func compareCodes[A code](cc *colCmp, a []A, g8 []int8, g16 []int16, g32 []int32, wid, gid []int32, p pairing, r *colResult, sc *scratch) {
 	switch {
 	case g8 != nil:
-		compareCodePairs(cc, a, g8, wid, gid, p, r, sc)
+		compareCodeRuns(cc, a, g8, wid, gid, p, r, sc)
 	case g16 != nil:
-		compareCodePairs(cc, a, g16, wid, gid, p, r, sc)
+		compareCodeRuns(cc, a, g16, wid, gid, p, r, sc)
 	case g32 != nil:
-		compareCodePairs(cc, a, g32, wid, gid, p, r, sc)
+		compareCodeRuns(cc, a, g32, wid, gid, p, r, sc)
 	}
 }
 
@@ -952,54 +769,4 @@ func sameCodes[A, B code](wid, gid []int32) bool {
 	var a A
 	var b B
 	return unsafe.Sizeof(a) == unsafe.Sizeof(b) && len(wid) <= len(gid) && identity(wid) && identity(gid[:len(wid)])
-}
-
-func compareCodePairs[A, B code](cc *colCmp, a []A, b []B, wid, gid []int32, p pairing, r *colResult, sc *scratch) {
-	switch {
-	case cc.wc.NullCount() > 0 || cc.gc.NullCount() > 0: // rows paired by position
-		same := func(k int) bool { return wid[a[k]] == gid[b[k]] }
-		identical := sameCodes[A, B](wid, gid)
-		cc.nullableRun(p.base, p.base+p.n, func(x, y int) bool {
-			if identical {
-				return bytes.Equal(asBytes(a[x:y]), asBytes(b[x:y]))
-			}
-			for k := x; k < y; k++ {
-				if !same(k) {
-					return false
-				}
-			}
-			return true
-		}, same, r)
-	case p.w == nil && p.g == nil:
-		codeRun(a[p.base:p.base+p.n], b[p.base:p.base+p.n], wid, gid, p.base, nil, r)
-	case sc.reordered(p):
-		// Cleared first: unpaired rows must hold a valid code.
-		codeRun(a[p.base:p.base+p.n], gotInWantOrder(sc, p, b, true), wid, gid, p.base, p.g, r)
-	default:
-		for k := 0; k < p.n; k++ {
-			wi, gi := p.at(k)
-			if gi >= 0 && wid[a[wi]] != gid[b[gi]] {
-				r.hit(p.base + k)
-			}
-		}
-	}
-}
-
-// codeRun compares want codes a with got codes b lined up with them (see
-// exactRun).
-func codeRun[A, B code](a []A, b []B, wid, gid []int32, base int, gmap []int32, r *colResult) {
-	check := func(k int) {
-		if wid[a[k]] != gid[b[k]] && partner(base, k, gmap) >= 0 {
-			r.hit(base + k)
-		}
-	}
-	// Same levels in the same order and the same code width: codes are
-	// equal exactly when their bytes are.
-	if len(a) > 0 && sameCodes[A, B](wid, gid) {
-		diffRuns(a, unsafe.Slice((*A)(unsafe.Pointer(unsafe.SliceData(b))), len(b)), check)
-		return
-	}
-	for k := range a {
-		check(k)
-	}
 }

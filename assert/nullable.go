@@ -104,20 +104,6 @@ func (cc *colCmp) compareNullableByPosition(p pairing, r *colResult, sc *scratch
 			mask := ^uint64(0) >> uint(64-(y-x))
 			return wb.word(x, nw)&mask == gb.word(x, ng)&mask
 		}, func(k int) bool { return cc.wc.Bool(k) == cc.gc.Bool(k) }, r)
-	case classInt, classTime:
-		if cc.class == classTime && (cc.wc.Type().Unit() != cc.gc.Type().Unit() || cc.hasTT) {
-			return false
-		}
-		a, b := cc.wc.Int64s(), cc.gc.Int64s()
-		cc.nullableRun(lo, hi, func(x, y int) bool { return bytes.Equal(asBytes(a[x:y]), asBytes(b[x:y])) },
-			func(k int) bool { return a[k] == b[k] }, r)
-	case classDate:
-		if cc.hasTT {
-			return false
-		}
-		a, b := cc.wc.DaysSlice(), cc.gc.DaysSlice()
-		cc.nullableRun(lo, hi, func(x, y int) bool { return bytes.Equal(asBytes(a[x:y]), asBytes(b[x:y])) },
-			func(k int) bool { return a[k] == b[k] }, r)
 	case classText:
 		switch {
 		case cc.norm == 0 && cc.wc.Kind() == fixtures.KindString && cc.gc.Kind() == fixtures.KindString:
@@ -126,8 +112,6 @@ func (cc *colCmp) compareNullableByPosition(p pairing, r *colResult, sc *scratch
 			cc.nullableRun(lo, hi, func(x, y int) bool {
 				return wo[y]-wo[x] == gOff[y]-gOff[x] && shiftedEqual(wo[x:y+1], gOff[x:y+1]) && bytes.Equal(wd[wo[x]:wo[y]], gd[gOff[x]:gOff[y]])
 			}, func(k int) bool { return string(wd[wo[k]:wo[k+1]]) == string(gd[gOff[k]:gOff[k+1]]) }, r)
-		case cc.wc.Kind() == fixtures.KindCategory && cc.gc.Kind() == fixtures.KindCategory:
-			cc.compareCategories(p, r, sc)
 		default:
 			return false
 		}
