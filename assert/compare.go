@@ -52,6 +52,9 @@ func Compare(want, got *fixtures.Table, opts ...Option) *Diff {
 		c.run()
 	}
 	c.addHints(keysOK)
+	if keysOK && !d.Equal() {
+		c.overview()
+	}
 	return d
 }
 
@@ -73,8 +76,8 @@ type comparison struct {
 	results        []*colResult // per compared column, once run
 	diffRows       []uint64     // bitmap of the pair slots with a differing cell
 	rowsRan        bool         // rows were paired and cells compared
-	// missingRows and extraRows are the first hintRowCap missing and
-	// extra rows (keyed and multiset pairings), for the hints.
+	// missingRows and extraRows are the missing and extra rows (keyed and
+	// multiset pairings), for the hints and the overview.
 	missingRows, extraRows []int32
 }
 
@@ -333,9 +336,7 @@ func (c *comparison) matchByPosition() {
 }
 
 func (c *comparison) addMissing(wi int) {
-	if len(c.missingRows) < hintRowCap {
-		c.missingRows = append(c.missingRows, int32(wi))
-	}
+	c.missingRows = append(c.missingRows, int32(wi))
 	c.d.Missing.Count++
 	if !c.d.listFull(len(c.missing)) {
 		c.missing = append(c.missing, int32(wi))
@@ -343,9 +344,7 @@ func (c *comparison) addMissing(wi int) {
 }
 
 func (c *comparison) addExtra(gi int) {
-	if len(c.extraRows) < hintRowCap {
-		c.extraRows = append(c.extraRows, int32(gi))
-	}
+	c.extraRows = append(c.extraRows, int32(gi))
 	c.d.Extra.Count++
 	if !c.d.listFull(len(c.extra)) {
 		c.extra = append(c.extra, int32(gi))

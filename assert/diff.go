@@ -74,6 +74,12 @@ type Diff struct {
 	// Equal.
 	Hints []Hint
 
+	// Overview is the shape of the differences (where the rows lie, how
+	// each number column's differences spread, how category levels
+	// moved), measured from the whole tables; nil when they are equal.
+	// The HTML renderer draws it.
+	Overview *Overview
+
 	// Limit is the listing cap in force (negative: no cap).
 	Limit int
 

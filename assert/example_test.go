@@ -193,6 +193,44 @@ func ExampleDiff_JSON() {
 	//       "pairs": []
 	//     }
 	//   ],
+	//   "overview": {
+	//     "strip": {
+	//       "order": "row",
+	//       "rows": 1,
+	//       "bins": [
+	//         {
+	//           "from": "row 1",
+	//           "differing": 1,
+	//           "missing": 0,
+	//           "extra": 0
+	//         }
+	//       ]
+	//     },
+	//     "numbers": [
+	//       {
+	//         "column": "tmin",
+	//         "cells": 1,
+	//         "others": 0,
+	//         "log": false,
+	//         "bins": [
+	//           {
+	//             "lo": -0.5,
+	//             "hi": -0.5,
+	//             "count": 1
+	//           }
+	//         ],
+	//         "points": [
+	//           [
+	//             8.5,
+	//             8
+	//           ]
+	//         ],
+	//         "abs": 0,
+	//         "rel": 0
+	//       }
+	//     ],
+	//     "categories": []
+	//   },
 	//   "limit": 0
 	// }
 }

@@ -335,14 +335,14 @@ func (c *comparison) nearMatchHint() {
 	}
 	const all = stepEncoding | stepNorm | stepBlanks | stepCase
 	byFolded := map[string][]int32{}
-	for _, gi := range c.extraRows {
+	for _, gi := range c.extraRows[:min(len(c.extraRows), hintRowCap)] {
 		f := c.foldedKey(GotSide, int(gi), all)
 		byFolded[f] = append(byFolded[f], gi)
 	}
 	h := Hint{Kind: HintNearMatch}
 	var why []string
 	optionHelps := true
-	for _, wi := range c.missingRows {
+	for _, wi := range c.missingRows[:min(len(c.missingRows), hintRowCap)] {
 		f := c.foldedKey(WantSide, int(wi), all)
 		cands := byFolded[f]
 		if len(cands) == 0 {

@@ -56,6 +56,7 @@ func (d *Diff) WriteHTML(w io.Writer) error {
 	if len(d.Hints) > 0 {
 		d.htmlHints(h)
 	}
+	d.htmlPictures(h)
 	if len(d.Schema) > 0 {
 		h.heading(fmt.Sprintf("Schema changes (%d)", len(d.Schema)))
 		h.table("ps-schema", []string{"column", "change", d.wantName(), d.gotName()})

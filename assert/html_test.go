@@ -121,12 +121,17 @@ func TestHTMLEscapesHostileText(t *testing.T) {
 	out := d.HTML()
 	// Source: HTML Living Standard §13.1.2 (elements start with "<" and a
 	// tag name) — escaped text cannot open an element.
-	for _, tag := range []string{"<script", "<img", "<svg"} {
+	for _, tag := range []string{"<script", "<img"} {
 		require.NotContains(t, out, tag)
 	}
+	// The only <svg> elements are the renderer's own pictures.
+	require.Equal(t, strings.Count(out, "<svg"), strings.Count(out, `<svg class="`+HTMLPicture+`"`))
 	nodes := parseFragment(t, out)
 	for _, n := range nodes {
-		require.NotContains(t, []string{"script", "img", "svg", "style", "iframe"}, n.name)
+		require.NotContains(t, []string{"script", "img", "style", "iframe"}, n.name)
+		if n.name == "svg" {
+			require.Equal(t, HTMLPicture, n.attrs["class"])
+		}
 		for a := range n.attrs {
 			require.False(t, strings.HasPrefix(a, "on"), "event handler attribute %q", a)
 		}

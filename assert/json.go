@@ -58,6 +58,7 @@ func (d *Diff) WriteJSON(w io.Writer) error {
 		Columns:        []jsonColumn{},
 		Duplicates:     []jsonDup{},
 		Hints:          []jsonHint{},
+		Overview:       jsonOverviewOf(d.Overview),
 		Limit:          d.Limit,
 	}
 	for _, h := range d.Hints {
@@ -218,7 +219,85 @@ type jsonDiff struct {
 	Extra          []jsonRow     `json:"extra"`
 	Duplicates     []jsonDup     `json:"duplicates"`
 	Hints          []jsonHint    `json:"hints"`
+	Overview       *jsonOverview `json:"overview"`
 	Limit          int           `json:"limit"`
+}
+
+type jsonOverview struct {
+	Strip struct {
+		Order string     `json:"order"`
+		Rows  int        `json:"rows"`
+		Bins  []StripBin `json:"bins"`
+	} `json:"strip"`
+	Numbers    []jsonNumberShape   `json:"numbers"`
+	Categories []jsonCategoryShape `json:"categories"`
+}
+
+type jsonNumberShape struct {
+	Column string         `json:"column"`
+	Cells  int            `json:"cells"`
+	Others int            `json:"others"`
+	Log    bool           `json:"log"`
+	Bins   []jsonDeltaBin `json:"bins"`
+	Points [][2]jsonNum   `json:"points"`
+	Abs    jsonNum        `json:"abs"`
+	Rel    jsonNum        `json:"rel"`
+}
+
+type jsonDeltaBin struct {
+	Lo    jsonNum `json:"lo"`
+	Hi    jsonNum `json:"hi"`
+	Count int     `json:"count"`
+}
+
+type jsonCategoryShape struct {
+	Column string       `json:"column"`
+	Levels []LevelCount `json:"levels"`
+	More   int          `json:"more"`
+}
+
+func jsonOverviewOf(o *Overview) *jsonOverview {
+	if o == nil {
+		return nil
+	}
+	out := &jsonOverview{Numbers: []jsonNumberShape{}, Categories: []jsonCategoryShape{}}
+	out.Strip.Order, out.Strip.Rows, out.Strip.Bins = o.Strip.Order, o.Strip.Rows, orEmpty(o.Strip.Bins)
+	for _, n := range o.Numbers {
+		jn := jsonNumberShape{Column: n.Column, Cells: n.Cells, Others: n.Others, Log: n.Log, Bins: []jsonDeltaBin{},
+			Points: [][2]jsonNum{}, Abs: jsonNum(n.Abs), Rel: jsonNum(n.Rel)}
+		for _, b := range n.Bins {
+			jn.Bins = append(jn.Bins, jsonDeltaBin{jsonNum(b.Lo), jsonNum(b.Hi), b.Count})
+		}
+		for _, p := range n.Points {
+			jn.Points = append(jn.Points, [2]jsonNum{jsonNum(p.Want), jsonNum(p.Got)})
+		}
+		out.Numbers = append(out.Numbers, jn)
+	}
+	for _, c := range o.Categories {
+		out.Categories = append(out.Categories, jsonCategoryShape{Column: c.Column, Levels: orEmpty(c.Levels), More: c.More})
+	}
+	return out
+}
+
+func overviewFromJSON(j *jsonOverview) *Overview {
+	if j == nil {
+		return nil
+	}
+	o := &Overview{Strip: RowStrip{Order: j.Strip.Order, Rows: j.Strip.Rows, Bins: j.Strip.Bins}}
+	for _, n := range j.Numbers {
+		s := NumberShape{Column: n.Column, Cells: n.Cells, Others: n.Others, Log: n.Log, Abs: float64(n.Abs), Rel: float64(n.Rel)}
+		for _, b := range n.Bins {
+			s.Bins = append(s.Bins, DeltaBin{float64(b.Lo), float64(b.Hi), b.Count})
+		}
+		for _, p := range n.Points {
+			s.Points = append(s.Points, Point{float64(p[0]), float64(p[1])})
+		}
+		o.Numbers = append(o.Numbers, s)
+	}
+	for _, c := range j.Categories {
+		o.Categories = append(o.Categories, CategoryShape{Column: c.Column, Levels: c.Levels, More: c.More})
+	}
+	return o
 }
 
 type jsonHint struct {
@@ -459,6 +538,7 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 	for _, k := range j.Duplicates {
 		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: rowIndexes(k.Rows)})
 	}
+	d.Overview = overviewFromJSON(j.Overview)
 	for _, jh := range j.Hints {
 		h := Hint{Kind: HintKind(jh.Kind), Column: jh.Column, Text: jh.Text, Option: jh.Option, Flag: jh.Flag,
 			Name: jh.Name, Suggest: jh.Suggest, Count: jh.Count}
