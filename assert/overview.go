@@ -101,9 +101,11 @@ type DeltaBin struct {
 // Point is a want value and its got value.
 type Point struct{ Want, Got float64 }
 
-// CategoryShape is how the levels of a category column moved: the rows of
-// each level on both sides, for the levels added, removed or whose count
-// changed (at most CategoryLevels of them, largest change first).
+// CategoryShape is how the levels of a category column moved — or the
+// values of a text column with differing cells and at most 64 distinct
+// values on a side: the rows of each level on both sides, for the levels
+// added, removed or whose count changed (at most CategoryLevels of them,
+// largest change first).
 type CategoryShape struct {
 	Column string
 	Levels []LevelCount
@@ -137,11 +139,18 @@ func (c *comparison) overview() {
 			d.Overview.Numbers = append(d.Overview.Numbers, c.numberShape(cc, r))
 		}
 	}
-	for _, cc := range c.cols {
-		if cc.wc.Kind() == fixtures.KindCategory && cc.gc.Kind() == fixtures.KindCategory {
-			if s, ok := categoryShape(cc); ok {
-				d.Overview.Categories = append(d.Overview.Categories, s)
-			}
+	for j, cc := range c.cols {
+		if cc.class != classText || cc.skip {
+			continue
+		}
+		// Category columns always; text columns with differing cells
+		// when they hold few distinct values, as a category would.
+		cats := cc.wc.Kind() == fixtures.KindCategory && cc.gc.Kind() == fixtures.KindCategory
+		if !cats && (j >= len(c.results) || c.results[j].differing == 0) {
+			continue
+		}
+		if s, ok := categoryShape(cc); ok {
+			d.Overview.Categories = append(d.Overview.Categories, s)
 		}
 	}
 }
@@ -406,30 +415,59 @@ func (c *comparison) numberShape(cc *colCmp, r *colResult) NumberShape {
 	return s
 }
 
-// categoryShape counts the rows of each level of a category column on
-// both sides and keeps the levels that were added, removed or changed.
+// levelsMax is the most distinct values a text column may hold on a side
+// to be drawn as levels.
+const levelsMax = 64
+
+// categoryShape counts the rows of each level (distinct value) of a text
+// column on both sides and keeps the levels that were added, removed or
+// changed. A category column's levels are those it declares; a string
+// column's are its values, and it has no shape when it holds more than
+// levelsMax of them.
 func categoryShape(cc *colCmp) (CategoryShape, bool) {
-	count := func(col *fixtures.Column) map[string]int {
-		perCode := make([]int, col.NumLevels())
-		for i := range col.Len() {
-			if !col.IsNull(i) {
-				perCode[col.Code(i)]++
+	count := func(col *fixtures.Column) (map[string]int, []string, bool) {
+		if col.Kind() == fixtures.KindCategory {
+			perCode := make([]int, col.NumLevels())
+			for i := range col.Len() {
+				if !col.IsNull(i) {
+					perCode[col.Code(i)]++
+				}
 			}
+			out := make(map[string]int, len(perCode))
+			for code, n := range perCode {
+				out[col.Level(code)] += n
+			}
+			return out, col.Levels(), true
 		}
-		out := make(map[string]int, len(perCode))
-		for code, n := range perCode {
-			out[col.Level(code)] += n
+		out := map[string]int{}
+		var order []string
+		for i := range col.Len() {
+			if col.IsNull(i) {
+				continue
+			}
+			s := col.Str(i)
+			if _, ok := out[s]; !ok {
+				if len(order) == levelsMax {
+					return nil, nil, false
+				}
+				order = append(order, s)
+			}
+			out[s]++
 		}
-		return out
+		return out, order, true
+	}
+	wn, wLevels, ok1 := count(cc.wc)
+	gn, gLevels, ok2 := count(cc.gc)
+	if !ok1 || !ok2 {
+		return CategoryShape{}, false
 	}
 	wl, gl := map[string]bool{}, map[string]bool{}
-	for _, l := range cc.wc.Levels() {
+	for _, l := range wLevels {
 		wl[l] = true
 	}
-	for _, l := range cc.gc.Levels() {
+	for _, l := range gLevels {
 		gl[l] = true
 	}
-	wn, gn := count(cc.wc), count(cc.gc)
 	var levels []LevelCount
 	seen := map[string]bool{}
 	add := func(l string) {
@@ -442,10 +480,10 @@ func categoryShape(cc *colCmp) (CategoryShape, bool) {
 			levels = append(levels, lc)
 		}
 	}
-	for _, l := range cc.wc.Levels() {
+	for _, l := range wLevels {
 		add(l)
 	}
-	for _, l := range cc.gc.Levels() {
+	for _, l := range gLevels {
 		add(l)
 	}
 	if len(levels) == 0 {

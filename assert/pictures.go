@@ -60,7 +60,7 @@ func (d *Diff) htmlPictures(h *htmlWriter) {
 // figure writes a figure with its picture and the words that say the same.
 func figure(h *htmlWriter, kind, column, label, caption string, w, ht int, body string) {
 	h.open("figure", "ps-figure", "data-picture", kind, "data-column", column)
-	fmt.Fprintf(h.b, `<svg class="%s" role="img" aria-label="%s" viewBox="0 0 %d %d" width="%d" height="%d" xmlns="http://www.w3.org/2000/svg" font-family="system-ui, sans-serif" font-size="11">`,
+	fmt.Fprintf(h.b, `<svg class="%s" role="img" aria-label="%s" viewBox="0 0 %d %d" width="%d" height="%d" font-family="system-ui, sans-serif" font-size="11">`,
 		HTMLPicture, html.EscapeString(label), w, ht, w, ht)
 	h.raw("<title>" + html.EscapeString(label) + "</title><desc>" + html.EscapeString(caption) + "</desc>")
 	h.raw(body)
@@ -338,10 +338,10 @@ func (d *Diff) levelsFigure(h *htmlWriter, c CategoryShape) {
 		body.WriteString(svgText(float64(labelW)+barMax*float64(max(l.Want, l.Got))/float64(peak)+6, y+13, "start", picMuted, fmt.Sprintf("%d → %d", l.Want, l.Got)))
 		words = append(words, fmt.Sprintf("%s %d → %d", name, l.Want, l.Got))
 	}
-	caption := fmt.Sprintf("Rows per level of category column %s, %s then %s, for the %s that changed: %s.",
+	caption := fmt.Sprintf("Rows per level of column %s, %s then %s, for the %s that changed: %s.",
 		c.Column, wn, gn, count(len(c.Levels), "level", "levels"), strings.Join(words, "; "))
 	if c.More > 0 {
 		caption += fmt.Sprintf(" %s left out.", capitalise(count(c.More, "more changed level", "more changed levels")))
 	}
-	figure(h, "levels", c.Column, "Rows per level of category column "+c.Column+", "+wn+" and "+gn, caption, w, ht, body.String())
+	figure(h, "levels", c.Column, "Rows per level of column "+c.Column+", "+wn+" and "+gn, caption, w, ht, body.String())
 }

@@ -584,9 +584,9 @@ td.ps-same{background:#fafaf8}
 h4.ps-heading{font-size:.9rem;margin:.9rem 0 .2rem}
 .ps-problems{color:var(--want)}
 .ps-hints{margin:.2rem 0 .6rem;padding-left:1.2rem}.ps-hint{margin:.2rem 0}
-.ps-pictures{display:flex;flex-wrap:wrap;gap:.8rem 1.4rem;align-items:flex-start;margin:.3rem 0 .8rem}
-.ps-figure{margin:0;max-width:100%}.ps-figure svg{max-width:100%;height:auto;display:block}
-.ps-caption{font-size:.78rem;color:var(--muted);max-width:45rem;margin-top:.2rem}
+.ps-pictures{display:flex;flex-wrap:wrap;gap:.8rem 1.4rem;align-items:flex-start;margin:.3rem 0 .8rem;overflow-x:auto}
+.ps-figure{margin:0}.ps-figure svg{display:block}
+.ps-caption{font-size:.78rem;color:var(--muted);width:0;min-width:100%;margin-top:.2rem}
 .ps-lines td{border:none;padding:0 .5rem;white-space:pre-wrap}
 .ps-lines .ps-ln{color:var(--muted);text-align:right;user-select:none}
 .ps-lines tr.ps-del{background:#fbeeea}.ps-lines tr.ps-del .ps-mark{color:var(--want)}

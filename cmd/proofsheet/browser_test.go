@@ -142,6 +142,8 @@ func TestReviewPageInBrowser(t *testing.T) {
 	require.True(t, facts.pwnedUndefined, "no injected script ran")
 	require.Equal(t, 1, facts.scripts, "the page's own script only")
 	require.Zero(t, facts.injected, "no img, svg or iframe element from cell text")
+	require.Positive(t, facts.pictures, "the changed tables have pictures")
+	require.Zero(t, facts.picturesInCells, "no picture comes from a cell")
 	require.Zero(t, facts.handlers, "no inline event handler attribute")
 	require.True(t, facts.hostileShown, "hostile text shows as text")
 	require.Equal(t, 8, facts.sectionsBefore)
@@ -152,17 +154,13 @@ func TestReviewPageInBrowser(t *testing.T) {
 	// Source: PNG specification (ISO/IEC 15948) §5.2 — every PNG file
 	// starts with the signature 89 50 4E 47 0D 0A 1A 0A.
 	require.True(t, bytes.HasPrefix(shot, []byte("\x89PNG\r\n\x1a\n")))
-	file := filepath.Join(t.TempDir(), "review.png")
-	require.NoError(t, os.WriteFile(file, shot, 0o644))
-	t.Logf("screenshot: %s (%d bytes)", file, len(shot))
-	if dir := os.Getenv("PROOFSHEET_SCREENSHOT_DIR"); dir != "" {
-		require.NoError(t, os.WriteFile(filepath.Join(dir, "review.png"), shot, 0o644))
-	}
+	saveScreenshot(t, "review.png", shot)
 }
 
 // pageFacts is what the browser test reads off the page.
 type pageFacts struct {
 	changedCells, scripts, injected, handlers       int
+	pictures, picturesInCells                       int
 	pwnedUndefined, hostileShown, fitsWidth         bool
 	sectionsBefore, sectionsFiltered, sectionsAgain int
 }
@@ -207,7 +205,9 @@ func openInBrowser(t *testing.T, page string) ([]byte, pageFacts) {
 	var f pageFacts
 	f.changedCells = num(`document.querySelectorAll("td.` + assert.HTMLChangedCell + `").length`)
 	f.scripts = num(`document.scripts.length`)
-	f.injected = num(`document.querySelectorAll("img, svg, iframe, object, embed").length`)
+	f.injected = num(`document.querySelectorAll("img, svg:not(.` + assert.HTMLPicture + `), iframe, object, embed").length`)
+	f.pictures = num(`document.querySelectorAll("figure.ps-figure > svg.` + assert.HTMLPicture + `").length`)
+	f.picturesInCells = num(`document.querySelectorAll("td svg, th svg").length`)
 	f.handlers = num(`Array.from(document.querySelectorAll("*")).filter(function(e){return Array.from(e.attributes).some(function(a){return a.name.indexOf("on")===0})}).length`)
 	f.hostileShown = truth(`Array.from(document.querySelectorAll("td.` + assert.HTMLChangedCell + ` ins")).some(function(e){return e.textContent.indexOf("<script>window.__pwned=1</script>")>=0})`)
 	f.fitsWidth = truth(`document.documentElement.scrollWidth <= document.documentElement.clientWidth`)

@@ -294,7 +294,9 @@ func runDiff(e *env, c *command, args []string) int {
 		case "markdown":
 			return d.WriteMarkdown(w)
 		case "html":
-			rv := &golden.Review{Title: "Table comparison", Noun: "table", Against: files[0], Files: []golden.FileReview{golden.ReviewDiff(files[1], d)}}
+			fr := golden.ReviewDiff(files[1], d)
+			fr.Rules = assert.RulesOf(opts...) // the page says what the rows were compared under
+			rv := &golden.Review{Title: "Table comparison", Noun: "table", Against: files[0], Files: []golden.FileReview{fr}}
 			return rv.WriteHTML(w)
 		}
 		return d.WriteText(w, assert.TextStyle{Color: *out == "" && useColor(e, e.stdout), Flags: true})
