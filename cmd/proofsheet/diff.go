@@ -29,10 +29,10 @@ func diffCommand() *command {
 		summary: "compare two table files cell by cell, with keys and tolerances",
 		usage: `Usage: proofsheet diff [options] WANT GOT
 
-Loads two tables — CSV/TSV, JSON Lines, JSON array, Arrow IPC or Parquet
-files, each by its extension (the two may differ in format), compressed
-or not, or standard input (-) — and compares GOT with WANT as
-assert.Compare does: schema, rows, then cells
+Loads two tables — CSV/TSV, JSON Lines, JSON array, Arrow IPC, Parquet
+or .xlsx files, each by its extension (the two may differ in format),
+compressed or not, standard input (-), or folders of such files — and
+compares GOT with WANT as assert.Compare does: schema, rows, then cells
 under per-column rules. Prints what differs: schema changes, differing
 cells with their distances, missing and extra rows, repeated keys and
 the largest deltas per column.

@@ -10,8 +10,10 @@ import (
 	"sort"
 	"strings"
 
-	// Every format the CLI reads and writes: Parquet registers itself.
+	// Every format the CLI reads and writes: Parquet and .xlsx register
+	// themselves.
 	_ "github.com/proofsheet/proofsheet/fixtures/parquet"
+	_ "github.com/proofsheet/proofsheet/fixtures/xlsx"
 )
 
 // Exit statuses, as POSIX diff uses them.

@@ -35,8 +35,8 @@ type readerFlags struct {
 // readerHelp documents the reader options for a command's usage text.
 const readerHelp = `Reading (the same options in every command that reads tables):
   --input-format F   read every input as F: csv, tsv, jsonl, json, arrow,
-                     arrow-stream, parquet (default: by extension, else
-                     by the bytes)
+                     arrow-stream, parquet, xlsx (default: by extension,
+                     else by the bytes)
   --delimiter C      CSV field delimiter instead of sniffing (\t for tab)
   --null TOKENS      comma-separated null tokens instead of the defaults
                      (NA, N/A, n/a, NULL, null, None, #N/A); --null '' for
@@ -51,7 +51,8 @@ const readerHelp = `Reading (the same options in every command that reads tables
                      table header (amount:decimal(12,2) | day:date) or a gen
                      schema file (NAME TYPE per line)
   --strict[=QUIRKS]  refuse what the readers otherwise read and report:
-                     empty-name, repeated-name, bare-quote, nested
+                     empty-name, repeated-name, bare-quote, nested,
+                     number-as-text, merged-cells, hidden-rows
                      (comma-separated; all when none is named)
   A FILE may be - (standard input, its format told by its bytes), a .gz,
   .zst or .bz2 file, a folder or a quoted glob ('out/*.csv'): the table
