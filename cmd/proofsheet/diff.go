@@ -106,6 +106,8 @@ func runDiff(e *env, c *command, args []string) int {
 	fs.StringVar(&ef.engine, "engine", "", "")
 	fs.StringVar(&ef.memoryLimit, "memory-limit", "", "")
 	fs.StringVar(&ef.tempDir, "temp-dir", "", "")
+	fs.StringVar(&ef.wantEngine, "want-engine", "", "")
+	fs.StringVar(&ef.gotEngine, "got-engine", "", "")
 	files, status, ok := parseFlags(e, c, fs, args)
 	if !ok {
 		return status
@@ -129,13 +131,13 @@ func runDiff(e *env, c *command, args []string) int {
 	if len(files) != 2 {
 		return trouble(e, c, "want two files, WANT and GOT, got %d\n\n%s", len(files), c.usage)
 	}
-	if ef.engine == "" && (ef.memoryLimit != "" || ef.tempDir != "") {
+	if !ef.used() && (ef.memoryLimit != "" || ef.tempDir != "") {
 		return trouble(e, c, "--memory-limit and --temp-dir are for --engine duckdb")
 	}
-	if ef.engine != "" && rf.asText {
+	if ef.used() && rf.asText {
 		return trouble(e, c, "--as-text reads files in memory; with --engine the engine reads them: cast the columns in a sql: query instead")
 	}
-	if name := rf.given(); ef.engine != "" && name != "" {
+	if name := rf.given(); ef.used() && name != "" {
 		return trouble(e, c, "--%s is a reader option; with --engine the engine reads the files: cast or parse the columns in a sql: query instead", name)
 	}
 	if !reportFormats[*format] {
@@ -175,7 +177,7 @@ func runDiff(e *env, c *command, args []string) int {
 		named = append(named, tolColumn(spec))
 	}
 	what := "file"
-	if ef.engine != "" {
+	if ef.used() {
 		what = "table"
 	}
 	unknown := func(wantNames, gotNames []string) (string, bool) {
@@ -245,7 +247,7 @@ func runDiff(e *env, c *command, args []string) int {
 	}
 	bar := newProgress(e, *quiet)
 	var d *assert.Diff
-	if ef.engine != "" {
+	if ef.used() {
 		d, err = engineDiff(ef, bar, files[0], files[1], opts)
 		if err != nil {
 			return fail("%v", err)

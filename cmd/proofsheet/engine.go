@@ -29,15 +29,38 @@ const engineHelp = `  --engine ENGINE    compare inside a SQL engine instead of 
   --memory-limit M   duckdb: cap DuckDB's memory (300MB, 2GB); past it,
                      joins and sorts spill to the temporary directory
   --temp-dir DIR     duckdb: where DuckDB spills (default: a new directory
-                     under the system's temporary directory, removed after)`
+                     under the system's temporary directory, removed after)
+  --want-engine E    WANT lives in engine E (duckdb, postgres://…,
+  --got-engine E     clickhouse://…), GOT in another: both stream their
+                     rows in key order and proofsheet merges them in
+                     bounded memory (default: --engine for both)`
 
 // engineFlags are diff's engine options.
 type engineFlags struct {
 	engine, memoryLimit, tempDir string
+	wantEngine, gotEngine        string
 }
+
+// sides returns the engines of WANT and GOT.
+func (f engineFlags) sides() (string, string) {
+	w, g := f.engine, f.engine
+	if f.wantEngine != "" {
+		w = f.wantEngine
+	}
+	if f.gotEngine != "" {
+		g = f.gotEngine
+	}
+	return w, g
+}
+
+// used reports whether the comparison runs in an engine.
+func (f engineFlags) used() bool { return f.engine != "" || f.wantEngine != "" || f.gotEngine != "" }
 
 // openEngine opens the engine an --engine value names; close releases it.
 func openEngine(f engineFlags) (eng *pushdown.Engine, close func(), err error) {
+	if f.engine != "duckdb" && (f.memoryLimit != "" || f.tempDir != "") {
+		return nil, nil, fmt.Errorf("--memory-limit and --temp-dir are for --engine duckdb")
+	}
 	switch {
 	case f.engine == "duckdb":
 		dir := f.tempDir
@@ -55,8 +78,6 @@ func openEngine(f engineFlags) (eng *pushdown.Engine, close func(), err error) {
 			return nil, nil, err
 		}
 		return &pushdown.Engine{DB: db, Dialect: pushdown.DuckDB}, func() { db.Close(); cleanup() }, nil
-	case f.memoryLimit != "" || f.tempDir != "":
-		return nil, nil, fmt.Errorf("--memory-limit and --temp-dir are for --engine duckdb")
 	}
 	u, err := url.Parse(f.engine)
 	if err != nil || u.Host == "" {
@@ -153,23 +174,51 @@ func splitName(s string) ([]string, error) {
 // engineDiff compares the two arguments inside the engine, showing what
 // the engine does (and for how long) on the progress bar.
 func engineDiff(f engineFlags, bar *progress, wantArg, gotArg string, opts []assert.Option) (*assert.Diff, error) {
-	eng, closeEngine, err := openEngine(f)
+	we, ge := f.sides()
+	if we == "" || ge == "" {
+		return nil, fmt.Errorf("--want-engine and --got-engine need each other, or --engine for the other side")
+	}
+	limits := func(name string) engineFlags {
+		if name != "duckdb" {
+			return engineFlags{engine: name}
+		}
+		return engineFlags{engine: name, memoryLimit: f.memoryLimit, tempDir: f.tempDir}
+	}
+	if f.engine != "duckdb" && we != "duckdb" && ge != "duckdb" && (f.memoryLimit != "" || f.tempDir != "") {
+		return nil, fmt.Errorf("--memory-limit and --temp-dir are for --engine duckdb")
+	}
+	weng, closeW, err := openEngine(limits(we))
 	if err != nil {
 		return nil, err
 	}
-	defer closeEngine()
-	want, err := relationOf(eng.Dialect, wantArg)
+	defer closeW()
+	want, err := relationOf(weng.Dialect, wantArg)
 	if err != nil {
 		return nil, err
 	}
-	got, err := relationOf(eng.Dialect, gotArg)
+	if ge == we {
+		got, err := relationOf(weng.Dialect, gotArg)
+		if err != nil {
+			return nil, err
+		}
+		tick := newEngineTicker(bar, string(weng.Dialect))
+		defer tick.stop()
+		weng.Progress = tick.step
+		return weng.Compare(context.Background(), want, got, opts...)
+	}
+	geng, closeG, err := openEngine(limits(ge))
 	if err != nil {
 		return nil, err
 	}
-	tick := newEngineTicker(bar, string(eng.Dialect))
+	defer closeG()
+	got, err := relationOf(geng.Dialect, gotArg)
+	if err != nil {
+		return nil, err
+	}
+	tick := newEngineTicker(bar, string(weng.Dialect)+" and "+string(geng.Dialect))
 	defer tick.stop()
-	eng.Progress = tick.step
-	return eng.Compare(context.Background(), want, got, opts...)
+	tick.step("streaming both sides in key order and merging them")
+	return pushdown.CompareAcross(context.Background(), pushdown.Source{Engine: weng, Relation: want}, pushdown.Source{Engine: geng, Relation: got}, opts...)
 }
 
 // engineTicker redraws the progress line with the step the engine is on

@@ -162,7 +162,17 @@ func TestDiffEngineServers(t *testing.T) {
 				// The CLI's JSON carries its schema version on top of the Diff's.
 				require.Equal(t, string(memJSON)+"\n", regexp.MustCompile(`(?m)^  "schema_version": \d+,\n`).ReplaceAllString(r.stdout, ""))
 			}
-			r := runBin(t, "", nil, "diff", "--engine", url, "--key", "house,day", "no_such_table_"+suffix, gn)
+			// GOT as a Parquet file that DuckDB reads, WANT in the server:
+			// both streamed in key order and merged.
+			pq := filepath.Join(t.TempDir(), "got.parquet")
+			require.NoError(t, fixtures.WriteFile(pq, got))
+			gmem, err := assert.Compare(sw, got, opts...).JSON()
+			require.NoError(t, err)
+			r := runBin(t, "", nil, "diff", "--want-engine", url, "--got-engine", "duckdb", "--key", "house,day", "--tol", "tmax=abs:0.01", "--format", "json", wn, pq)
+			require.Equal(t, exitDiffers, r.code, r.stderr)
+			require.Equal(t, string(gmem)+"\n", regexp.MustCompile(`(?m)^  "schema_version": \d+,\n`).ReplaceAllString(r.stdout, ""))
+
+			r = runBin(t, "", nil, "diff", "--engine", url, "--key", "house,day", "no_such_table_"+suffix, gn)
 			require.Equal(t, exitTrouble, r.code)
 			require.Contains(t, r.stderr, "no_such_table_"+suffix)
 		})

@@ -1,0 +1,13 @@
+package pushdown
+
+import (
+	"context"
+
+	"github.com/proofsheet/proofsheet/assert"
+)
+
+// CompareAcrossChunked is CompareAcross comparing chunk pairs at a time,
+// so that tests cross many chunk boundaries with small tables.
+func CompareAcrossChunked(ctx context.Context, want, got Source, chunk int, opts ...assert.Option) (*assert.Diff, error) {
+	return compareAcross(ctx, want, got, chunk, opts)
+}
