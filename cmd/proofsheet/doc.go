@@ -6,6 +6,7 @@
 //
 //	proofsheet profile FILE... [--json]
 //	proofsheet diff [--key COLS] [--tol SPEC]... [--format F] WANT GOT
+//	proofsheet diff --engine duckdb|postgres://…|clickhouse://… [--key COLS] … WANT GOT
 //	proofsheet changes [--base REV | --records DIR] [--format F] [PATH...]
 //	proofsheet gen --schema FILE [--rows N] [--seed N] [--mess LEVEL] [--out FILE]
 //	proofsheet demo [--html FILE]

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"database/sql"
 	"fmt"
 	"os"
 	"os/exec"
@@ -160,4 +161,59 @@ func BenchmarkDiffDuckDBOutOfCore(b *testing.B) {
 		b.ReportMetric(took.Seconds(), "s/diff")
 		require.LessOrEqual(b, rss, int64(1<<30), "peak RSS over 1 GB")
 	}
+}
+
+// BenchmarkDiffAcrossPostgresParquet measures the merge across two places
+// at 1M and 10M rows: WANT a PostgreSQL table, GOT a Parquet file that
+// DuckDB reads, both streamed in key order into one proofsheet process.
+// Its peak RSS should not grow with the row count. It needs the
+// PostgreSQL of .ci/servers and writes ~300 MB:
+//
+//	PROOFSHEET_ACROSS=1 go test ./cmd/proofsheet -run '^$' -bench DiffAcrossPostgresParquet -benchtime 1x -timeout 60m
+func BenchmarkDiffAcrossPostgresParquet(b *testing.B) {
+	if os.Getenv("PROOFSHEET_ACROSS") != "1" {
+		b.Skip("set PROOFSHEET_ACROSS=1 (and PROOFSHEET_POSTGRES_URL) to measure the merge across two places")
+	}
+	url := os.Getenv("PROOFSHEET_POSTGRES_URL")
+	if url == "" || !duckdb.Available {
+		b.Skip("needs PROOFSHEET_POSTGRES_URL and a build with cgo")
+	}
+	db, err := sql.Open("pgx", url)
+	require.NoError(b, err)
+	defer db.Close()
+	dir := b.TempDir()
+	var rss []int64
+	for _, n := range []int64{1_000_000, 10_000_000} {
+		table := fmt.Sprintf("across_want_%d_%d", n, time.Now().UnixNano())
+		_, err := db.Exec(fmt.Sprintf(`CREATE TABLE %s AS SELECT i AS id, 'house-' || (i %% 977) AS house,
+			TIMESTAMP '2025-01-01 00:00:00' + i * INTERVAL '1 second' AS at,
+			CAST(i %% 100003 AS DOUBLE PRECISION) * CAST(0.001 AS DOUBLE PRECISION) AS temp_c, (i * 7) %% 1000 AS kept
+			FROM generate_series(0, %d) AS t(i)`, table, n-1))
+		require.NoError(b, err)
+		defer db.Exec("DROP TABLE " + table)
+		_, g := oocGenerate(b, filepath.Join(dir, fmt.Sprint(n)), n)
+		b.ResetTimer()
+		out, code, took, peak := timed(b, "diff", "--want-engine", url, "--got-engine", "duckdb", "--memory-limit", "300MB",
+			"--key", "id", "--tol", "temp_c=abs:1e-6", "--format", "json", table, g)
+		b.StopTimer()
+		require.Equal(b, exitDiffers, code, out)
+		d, err := assert.DiffFromJSON([]byte(regexp.MustCompile(`(?m)^  "schema_version": \d+,\n`).ReplaceAllString(out, "")))
+		require.NoError(b, err)
+		missing, extra, temp, kept := oocExpected(n)
+		require.Equal(b, missing, d.Missing.Count)
+		require.Equal(b, extra, d.Extra.Count)
+		for _, c := range d.Columns {
+			switch c.Name {
+			case "temp_c":
+				require.Equal(b, temp, c.Differing)
+			case "kept":
+				require.Equal(b, kept, c.Differing)
+			}
+		}
+		b.Logf("%d rows: PostgreSQL table against Parquet file took %v, peak RSS %d MB", n, took.Round(time.Second), peak>>20)
+		rss = append(rss, peak)
+	}
+	b.ReportMetric(float64(rss[0])/(1<<20), "peakRSS-1M-MB")
+	b.ReportMetric(float64(rss[1])/(1<<20), "peakRSS-10M-MB")
+	b.ReportMetric(float64(rss[1])/float64(rss[0]), "RSS10M/RSS1M")
 }
