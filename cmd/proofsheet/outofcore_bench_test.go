@@ -24,7 +24,7 @@ import (
 // 300MB` under /usr/bin/time -v. It checks the Diff's counts against the
 // differences the generator put in, that peak RSS stays under 1 GB, and,
 // on a 1M-row sample made by the same generator, that the engine's Diff
-// is the in-memory Diff. It writes about 1.2 GB of files, so it runs
+// is the in-memory Diff. It writes about 240 MB of files and spills to disk, so it runs
 // only when asked:
 //
 //	PROOFSHEET_OOC=1 go test ./cmd/proofsheet -run '^$' -bench DiffDuckDBOutOfCore -benchtime 1x -timeout 60m
