@@ -190,7 +190,7 @@ func runDiff(e *env, c *command, args []string) int {
 		return "", false
 	}
 	if *byFile {
-		if ef.engine != "" {
+		if ef.used() {
 			return trouble(e, c, "--by-file reads the files in memory; it does not go with --engine")
 		}
 		if *format == "html" {
