@@ -5,7 +5,6 @@ import (
 	"database/sql"
 	"fmt"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"regexp"
 	"testing"
@@ -92,26 +91,6 @@ func TestDiffEngineTrouble(t *testing.T) {
 		require.Contains(t, r.stderr, tc.msg, "%v", tc.args)
 		require.NotContains(t, r.stderr, "secret", "the password is never printed")
 	}
-}
-
-// TestDiffEngineWithoutCgo builds proofsheet without cgo: it builds, and
-// --engine duckdb says plainly that this build has no DuckDB engine.
-func TestDiffEngineWithoutCgo(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds a second binary")
-	}
-	bin := filepath.Join(t.TempDir(), "proofsheet-nocgo")
-	cmd := exec.Command("go", "build", "-o", bin, ".")
-	cmd.Env = append(os.Environ(), "CGO_ENABLED=0")
-	out, err := cmd.CombinedOutput()
-	require.NoError(t, err, "%s", out)
-	dir := writeFiles(t, map[string]string{"want.csv": dailyWant})
-	c := exec.Command(bin, "diff", "--engine", "duckdb", filepath.Join(dir, "want.csv"), filepath.Join(dir, "want.csv"))
-	msg, err := c.CombinedOutput()
-	var ee *exec.ExitError
-	require.ErrorAs(t, err, &ee)
-	require.Equal(t, exitTrouble, ee.ExitCode())
-	require.Contains(t, string(msg), "this build has no DuckDB engine: it was built without cgo")
 }
 
 // TestDiffEngineServers: against PostgreSQL and the ClickHouse cluster,
