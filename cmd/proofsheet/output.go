@@ -181,8 +181,15 @@ func readTableReport(p *progress, path string, opts ...fixtures.ReadOption) (*fi
 	if p == nil || err != nil || !fi.Mode().IsRegular() || fi.Size() < progressMin {
 		return fixtures.ReadFile(path, opts...)
 	}
-	if _, err := fixtures.FormatFor(path); err != nil {
+	format, err := fixtures.FormatFor(path)
+	if err != nil {
 		return fixtures.ReadFile(path, opts...) // the same message as without the bar
+	}
+	if format == fixtures.FormatParquet {
+		// Read in place, by offset: the file's bytes never sit in memory
+		// beside the table; the bar says what is being read.
+		p.start("reading "+filepath.Base(path)+" …", 0)
+		return fixtures.ReadFile(path, opts...)
 	}
 	f, err := os.Open(path)
 	if err != nil {
