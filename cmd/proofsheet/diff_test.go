@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -280,6 +281,7 @@ func TestDiffBadInput(t *testing.T) {
 		{"bad max-cells", []string{"--max-cells", "many", f("want.csv"), f("got.csv")}, "invalid value"},
 		{"out is a directory", []string{"--out", dir, f("want.csv"), f("got.csv")}, "is a directory"},
 		{"out in no directory", []string{"--out", filepath.Join(dir, "no", "such", "r.md"), f("want.csv"), f("got.csv")}, "no directory"},
+		{"empty delimiter", []string{"--delimiter", "", f("want.csv"), f("got.csv")}, `--delimiter "": want one character`},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -297,6 +299,23 @@ func TestDiffBadInput(t *testing.T) {
 			require.Equal(t, "earlier report\n", string(data), "--out is untouched on failure")
 		})
 	}
+}
+
+// TestDiffOutNotWritable: an --out file that cannot be written is named
+// (not the temporary file) and refused before the files are even read:
+// here WANT does not exist, and the error is about --out.
+func TestDiffOutNotWritable(t *testing.T) {
+	if runtime.GOOS != "linux" {
+		t.Skip("uses /sys, where nobody may make files")
+	}
+	dir := writeFiles(t, map[string]string{"got.csv": dailyGot})
+	out := "/sys/proofsheet-report.md"
+	r := runBin(t, "", nil, "diff", "--out", out, filepath.Join(dir, "absent.csv"), filepath.Join(dir, "got.csv"))
+	require.Equal(t, exitTrouble, r.code)
+	require.Equal(t, "proofsheet diff: --out /sys/proofsheet-report.md: permission denied\n", r.stderr)
+	r = runBin(t, "", nil, "diff", "--junit", "/sys/proofsheet-junit.xml", filepath.Join(dir, "absent.csv"), filepath.Join(dir, "got.csv"))
+	require.Equal(t, exitTrouble, r.code)
+	require.Equal(t, "proofsheet diff: --junit /sys/proofsheet-junit.xml: permission denied\n", r.stderr)
 }
 
 // TestDiffKeepsKeysWhole checks that the command line's text report,

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -11,6 +12,7 @@ import (
 	"golang.org/x/term"
 
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/atomicfile"
 	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
@@ -48,27 +50,42 @@ func writeResultWith(e *env, out string, write func(w io.Writer) error) error {
 	if out == "" {
 		return write(e.stdout)
 	}
-	if fi, err := os.Stat(out); err == nil && fi.IsDir() {
-		return fmt.Errorf("--out %s is a directory", out)
+	if err := checkOut(out); err != nil {
+		return err
 	}
 	if err := fixtures.WriteFileAtomicWith(out, 0o644, write); err != nil {
-		return fmt.Errorf("--out %s: %w", out, err)
+		return outError(out, err)
 	}
 	return nil
 }
 
+// outError is err about the --out file, which it names once.
+func outError(out string, err error) error { return flagFileError("--out", out, err) }
+
+// flagFileError is err about the file a flag names, naming it once.
+func flagFileError(flag, path string, err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) && pe.Path == path {
+		return fmt.Errorf("%s %s: %w", flag, path, pe.Err)
+	}
+	return fmt.Errorf("%s %s: %w", flag, path, err)
+}
+
 // checkOut refuses an --out path that cannot be written before any work
-// is done: a directory, or a file in a directory that does not exist.
-func checkOut(out string) error {
-	if out == "" {
+// is done (see checkWritable).
+func checkOut(out string) error { return checkWritable("--out", out) }
+
+// checkWritable refuses a path a flag names for output that cannot be
+// written, before any work is done, naming it (not a temporary file): a
+// directory, a file in a directory that does not exist, a file or
+// directory that may not be written. It tries the write as it would be
+// made, leaving nothing behind.
+func checkWritable(flag, path string) error {
+	if path == "" {
 		return nil
 	}
-	if fi, err := os.Stat(out); err == nil && fi.IsDir() {
-		return fmt.Errorf("--out %s is a directory", out)
-	}
-	dir := filepath.Dir(out)
-	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
-		return fmt.Errorf("--out %s: no directory %s", out, dir)
+	if err := atomicfile.Check(path); err != nil {
+		return flagFileError(flag, path, err)
 	}
 	return nil
 }

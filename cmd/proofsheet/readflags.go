@@ -96,7 +96,7 @@ func (r *readerFlags) options() ([]fixtures.ReadOption, error) {
 		}
 		opts = append(opts, fixtures.WithFormat(f))
 	}
-	if r.delimiter != "" {
+	if r.delimiter != "" || isSet(r.fs, "delimiter") { // --delimiter "" is a mistake, not "sniff"
 		d := r.delimiter
 		if d == `\t` || d == "tab" {
 			d = "\t"

@@ -6,8 +6,6 @@ import (
 	"encoding/xml"
 	"fmt"
 	"io"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"time"
@@ -224,7 +222,7 @@ func (s *junitSuite) write(path string) error {
 		return fmt.Errorf("--junit %s: %w", path, err)
 	}
 	if err := fixtures.WriteFileAtomic(path, b, 0o644); err != nil {
-		return fmt.Errorf("--junit %s: %w", path, err)
+		return flagFileError("--junit", path, err)
 	}
 	return nil
 }
@@ -232,17 +230,7 @@ func (s *junitSuite) write(path string) error {
 // checkJUnit refuses a --junit path that cannot be written, before any
 // work is done.
 func checkJUnit(path string) error {
-	if path == "" {
-		return nil
-	}
-	if fi, err := os.Stat(path); err == nil && fi.IsDir() {
-		return fmt.Errorf("--junit %s is a directory", path)
-	}
-	dir := filepath.Dir(path)
-	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
-		return fmt.Errorf("--junit %s: no directory %s", path, dir)
-	}
-	return nil
+	return checkWritable("--junit", path)
 }
 
 func firstLine(s string) string {
