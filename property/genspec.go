@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode/utf8"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -105,6 +106,9 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 			continue
 		}
 		col := len(line) - len(strings.TrimLeft(line, " \t")) + 1
+		if at, what := badText(line); at > 0 {
+			return nil, &fixtures.ParseError{Path: name, Line: n, Column: at, Err: fmt.Errorf("%s: a schema file is UTF-8 text", what)}
+		}
 		toks, err := specTokens(line)
 		if err != nil {
 			return nil, &fixtures.ParseError{Path: name, Line: n, Column: err.col, Err: err.err}
@@ -122,6 +126,9 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 			return nil, &fixtures.ParseError{Path: name, Line: n, Column: col, Err: fmt.Errorf("column %q has no type: want NAME TYPE [levels=A|B]", toks[0].value)}
 		}
 		cname := toks[0].value
+		if msg := nameProblem(cname); msg != "" {
+			return nil, fail(toks[0], "column %q: %s", cname, msg)
+		}
 		if prev, dup := seen[cname]; dup {
 			return nil, fail(toks[0], "column %q is already defined on line %d", cname, prev)
 		}
@@ -191,13 +198,37 @@ func ParseGenSpec(name string, text []byte) (*GenSpec, error) {
 				return nil, &fixtures.ParseError{Path: name, Line: line, Column: 1, Err: fmt.Errorf("column %q: %w", ce.Column, ce.Err)}
 			}
 		}
-		return nil, &fixtures.ParseError{Path: name, Err: err}
+		return nil, &fixtures.ParseError{Path: name, Err: unprefixed{err}}
 	}
 	if _, err := spec.Style.norm(); err != nil {
-		return nil, &fixtures.ParseError{Path: name, Err: err}
+		return nil, &fixtures.ParseError{Path: name, Err: unprefixed{err}}
 	}
 	return spec, nil
 }
+
+// badText returns the 1-based byte column of the first NUL byte or byte
+// that is not UTF-8 in line, and what it is; 0 when there is none.
+func badText(line string) (int, string) {
+	for i := 0; i < len(line); {
+		r, size := utf8.DecodeRuneInString(line[i:])
+		switch {
+		case r == 0:
+			return i + 1, "a NUL byte"
+		case r == utf8.RuneError && size == 1:
+			return i + 1, fmt.Sprintf("byte 0x%02X is not UTF-8", line[i])
+		}
+		i += size
+	}
+	return 0, ""
+}
+
+// unprefixed shows an error of this package in a schema file's message
+// without the "property: " its Go callers see.
+type unprefixed struct{ err error }
+
+func (u unprefixed) Error() string { return strings.TrimPrefix(u.err.Error(), "property: ") }
+
+func (u unprefixed) Unwrap() error { return u.err }
 
 // columnOption applies one KEY=VALUE option of a column line.
 func (s *GenSpec) columnOption(r *Rules, weights *[]float64, typ fixtures.Type, cname, key, val string) error {
@@ -439,7 +470,7 @@ func (s *GenSpec) setting(toks []specToken, fail func(specToken, string, ...any)
 			ts[i] = t
 		}
 		if ts[1].Before(ts[0]) {
-			return fail(args[1], "@dates: %s is before %s", args[1].value, args[0].value)
+			return fail(args[1], "@dates: the range ends on %s, before it starts on %s: want FROM TO, the earlier date first", args[1].value, args[0].value)
 		}
 		o.DateFrom, o.DateTo = ts[0], ts[1].Add(24*time.Hour-time.Second)
 	case "null-tokens":

@@ -99,7 +99,7 @@ func TestParseGenSpecErrors(t *testing.T) {
 		{"bad rate", "@null-rate 1.5\na int64\n", 1, 12, "want a share from 0 to 1"},
 		{"bad mess", "@mess chaos\na int64\n", 1, 7, `unknown mess level "chaos"`},
 		{"bad mess name", "@avoid glitter\na int64\n", 1, 8, `unknown mess "glitter"`},
-		{"dates reversed", "@dates 2026-06-01 2026-03-01\na date\n", 1, 19, "is before"},
+		{"dates reversed", "@dates 2026-06-01 2026-03-01\na date\n", 1, 19, "@dates: the range ends on 2026-03-01, before it starts on 2026-06-01: want FROM TO, the earlier date first"},
 		{"bad date", "@dates 2026-13-01 2026-03-01\na date\n", 1, 8, "is not a date"},
 		{"bad delimiter", "@delimiter :\na int64\n", 1, 12, "unknown delimiter"},
 		{"setting value missing", "@quoting\na int64\n", 1, 1, "takes one value"},

@@ -6,6 +6,7 @@ import (
 	"slices"
 	"strings"
 	"time"
+	"unicode/utf8"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -414,6 +415,11 @@ func (o Options) compile(schema fixtures.Schema) (*config, error) {
 	if err := schema.Validate(); err != nil {
 		return nil, fmt.Errorf("property: %w", err)
 	}
+	for _, f := range schema {
+		if msg := nameProblem(f.Name); msg != "" {
+			return nil, &ColumnError{Column: f.Name, Err: errors.New(msg)}
+		}
+	}
 	level := o.Mess
 	if level == "" {
 		level = Light
@@ -585,6 +591,23 @@ func defaultNullTokens(level MessLevel, lc *Locale) []string {
 	return out
 }
 
+// nameProblem says why a column name cannot be written into a generated
+// file so that fixtures reads it back as written, or "": a NUL byte (no
+// text table file holds one), bytes that are not UTF-8 (the file would be
+// read as Windows-1252, or as UTF-16 when it starts FF FE), or a byte
+// order mark at the start (a reader takes it for the file's own).
+func nameProblem(name string) string {
+	switch {
+	case strings.IndexByte(name, 0) >= 0:
+		return "the name holds a NUL byte, which no text table file can hold"
+	case !utf8.ValidString(name):
+		return "the name is not valid UTF-8"
+	case strings.HasPrefix(name, "\ufeff"):
+		return "the name starts with U+FEFF, which a reader takes for a byte order mark"
+	}
+	return ""
+}
+
 // deriveOrder returns the schema columns in the order a record's values
 // are made: plain columns first, then derived ones after the columns they
 // read. A cycle is an error.
@@ -597,7 +620,8 @@ func deriveOrder(schema fixtures.Schema, cols []*colConf) ([]int, error) {
 		case 2:
 			return nil
 		case 1:
-			return fmt.Errorf("property: derived columns depend on each other in a circle: %s", strings.Join(append(path, schema[j].Name), " → "))
+			circle := append(path, schema[j].Name)
+			return &ColumnError{Column: schema[j].Name, Err: fmt.Errorf("derived columns depend on each other in a circle: %s", strings.Join(circle[slices.Index(circle, schema[j].Name):], " → "))}
 		}
 		state[j] = 1
 		if e := cols[j].derive; e != nil {
