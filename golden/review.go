@@ -91,6 +91,11 @@ type FileReview struct {
 	PathCount int
 	// Problems are versions that could not be read.
 	Problems []string
+	// NewUnreadable is set when the new version (the working tree's, in a
+	// review against git) exists but cannot be read as its kind: a file
+	// that a check would fail to read, which is trouble rather than a
+	// change.
+	NewUnreadable bool
 	// Detail is the failure message of a run record.
 	Detail string
 }
@@ -123,6 +128,18 @@ type Review struct {
 	// Noun names what the files are in the headline: "golden file" when
 	// empty ("table" for a comparison of two table files, say).
 	Noun string
+}
+
+// Unreadable returns the paths of the files whose new version cannot be
+// read (see FileReview.NewUnreadable).
+func (r *Review) Unreadable() []string {
+	var out []string
+	for _, f := range r.Files {
+		if f.NewUnreadable {
+			out = append(out, f.Path)
+		}
+	}
+	return out
 }
 
 // Count returns how many files have the status.
@@ -244,6 +261,7 @@ func reviewTable(f *FileReview, c FileChange, optsFor OptionsFor) {
 	if c.NewExists {
 		if cur, newInfo, err = DecodeTable(c.Path+" (new)", c.New); err != nil {
 			f.Problems = append(f.Problems, err.Error())
+			f.NewUnreadable = true
 		} else {
 			f.NewRows, f.NewKeys = cur.NumRows(), newInfo.Keys
 		}
@@ -409,6 +427,7 @@ func reviewJSON(f *FileReview, c FileChange) {
 	if c.NewExists {
 		if g, err = decodeJSON(c.New); err != nil {
 			f.Problems = append(f.Problems, fmt.Sprintf("%s (new): %v", c.Path, err))
+			f.NewUnreadable = true
 		}
 	}
 	f.OldRows, f.NewRows = -1, -1

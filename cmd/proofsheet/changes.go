@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os"
+	"strings"
 	"time"
 
 	"github.com/proofsheet/proofsheet/assert"
@@ -176,6 +177,11 @@ func runChanges(e *env, c *command, args []string) int {
 	}
 	if err := stepSummary(e, rv.Markdown()); err != nil {
 		return trouble(e, c, "%v", err)
+	}
+	// A working-tree golden file that cannot be read is trouble, not a
+	// change: every check that reads it fails too.
+	if bad := rv.Unreadable(); len(bad) > 0 {
+		return trouble(e, c, "%s in the working tree cannot be read (see the summary): %s", pluralWord(len(bad), "golden file", "golden files"), strings.Join(bad, ", "))
 	}
 	if rv.Changed() {
 		return exitDiffers

@@ -266,3 +266,27 @@ func TestChangesBadInput(t *testing.T) {
 		})
 	}
 }
+
+// TestChangesUnreadableWorkingFile: a golden file in the working tree
+// that cannot be read is trouble (exit 2), not a change, and the summary
+// still says what was found; an unreadable old version is history and
+// stays a change.
+func TestChangesUnreadableWorkingFile(t *testing.T) {
+	repo := newRepo(t, map[string]string{"pkg/testdata/t.gold.tbl": goldenDaily, "pkg/testdata/j.gold.json": "{\"a\": 1}\n"})
+	writeTree(t, repo, map[string]string{"pkg/testdata/t.gold.tbl": "house:string\n\"unterminated\n"})
+	r := runBin(t, repo, noEnv, "changes", "--format", "text")
+	require.Equal(t, exitTrouble, r.code, r.stdout)
+	require.Equal(t, "proofsheet changes: 1 golden file in the working tree cannot be read (see the summary): pkg/testdata/t.gold.tbl\n", r.stderr)
+	require.Contains(t, r.stdout, "pkg/testdata/t.gold.tbl (new)")
+
+	writeTree(t, repo, map[string]string{"pkg/testdata/j.gold.json": "{\"a\": \n"})
+	r = runBin(t, repo, noEnv, "changes", "--format", "text")
+	require.Equal(t, exitTrouble, r.code)
+	require.Contains(t, r.stderr, "2 golden files in the working tree cannot be read (see the summary): pkg/testdata/j.gold.json, pkg/testdata/t.gold.tbl")
+
+	// Committed damaged, then mended in the working tree: a change.
+	gitT(t, repo, "commit", "-qam", "damaged")
+	writeTree(t, repo, map[string]string{"pkg/testdata/t.gold.tbl": goldenDaily, "pkg/testdata/j.gold.json": "{\"a\": 1}\n"})
+	r = runBin(t, repo, noEnv, "changes", "--format", "text")
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+}
