@@ -2,6 +2,7 @@ package assert
 
 import (
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/printable"
 )
 
 // Diff is the outcome of Compare: everything that differs between a wanted
@@ -94,7 +95,7 @@ func (d *Diff) wantName() string {
 	if d.WantName == "" {
 		return string(WantSide)
 	}
-	return d.WantName
+	return printable.Name(d.WantName)
 }
 
 // gotName is how renderers label got.
@@ -102,7 +103,7 @@ func (d *Diff) gotName() string {
 	if d.GotName == "" {
 		return string(GotSide)
 	}
-	return d.GotName
+	return printable.Name(d.GotName)
 }
 
 // sideName labels a side as the renderers do.

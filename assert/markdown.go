@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"io"
 	"strings"
+
+	"github.com/proofsheet/proofsheet/internal/printable"
 )
 
 // Markdown writes the Diff for a reviewer, for example as a pull-request
@@ -61,7 +63,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 	if len(d.Schema) > 0 {
 		p("\n#### Schema changes\n\n| column | change | %s | %s |\n|---|---|---|---|\n", d.wantName(), d.gotName())
 		for _, s := range d.Schema {
-			p("| %s | %s | %s | %s |\n", mdCode(s.Column), d.describeChange(s.Change), mdCode(s.Want), mdCode(s.Got))
+			p("| %s | %s | %s | %s |\n", mdCode(printable.Name(s.Column)), d.describeChange(s.Change), mdCode(s.Want), mdCode(s.Got))
 		}
 	}
 	if d.CellsDiffering > 0 {
@@ -71,7 +73,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 		if keyed {
 			head = nil
 			for _, k := range d.Keys {
-				head = append(head, mdCode(k))
+				head = append(head, mdCode(printable.Name(k)))
 			}
 		}
 		head = append(head, "column", d.wantName(), d.gotName(), "abs. diff", "rel. diff")
@@ -98,7 +100,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 					rel = formatRel(c.Delta.Rel)
 				}
 			}
-			for _, x := range [...]string{mdCode(c.Column), mdCode(c.Want.Text), mdCode(c.Got.Text), abs, rel} {
+			for _, x := range [...]string{mdCode(printable.Name(c.Column)), mdCode(c.Want.Text), mdCode(c.Got.Text), abs, rel} {
 				cell(x)
 			}
 			b.WriteString("\n")
@@ -114,7 +116,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 			eachCell(d.Cells, func(_ int, c *CellDiff) bool {
 				if ws, gs, ok := textPair(c); ok {
 					if e, ok := textEdit(ws, gs, editStyle{}); ok {
-						p("- %s, %s: %s\n", d.rowName(c.Row), mdCode(c.Column), mdCode(e))
+						p("- %s, %s: %s\n", d.rowName(c.Row), mdCode(printable.Name(c.Column)), mdCode(e))
 					}
 				}
 				return true
@@ -125,7 +127,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 		if l.Count == 0 {
 			return
 		}
-		p("\n#### %s (%d%s)\n\n| row | %s |\n|--:|%s\n", title, l.Count, mdShown(l.Rows.Len(), l.Count), mdJoin(cols), strings.Repeat("---|", len(cols)))
+		p("\n#### %s (%d%s)\n\n| row | %s |\n|--:|%s\n", title, l.Count, mdShown(l.Rows.Len(), l.Count), mdJoin(shownNames(cols)), strings.Repeat("---|", len(cols)))
 		for _, r := range l.Rows.All() {
 			idx := r.Want
 			if idx < 0 {
@@ -156,7 +158,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 					rel = formatRel(c.MaxRel) + " at " + mdEscape(d.rowName(c.MaxRelAt))
 				}
 			}
-			p("| %s | %s | %d | %s | %s |\n", mdCode(c.Name), mdEscape(c.Rule), c.Differing, abs, rel)
+			p("| %s | %s | %d | %s | %s |\n", mdCode(printable.Name(c.Name)), mdEscape(c.Rule), c.Differing, abs, rel)
 		}
 	}
 	return b.Flush()
@@ -215,6 +217,15 @@ func mdCode(s string) string {
 func mdEscape(s string) string {
 	r := strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "<", "&lt;", ">", "&gt;", "[", `\[`, "]", `\]`, "\n", " ")
 	return r.Replace(s)
+}
+
+// shownNames is printable.Name of each name.
+func shownNames(names []string) []string {
+	out := make([]string, len(names))
+	for i, n := range names {
+		out[i] = printable.Name(n)
+	}
+	return out
 }
 
 func mdJoin(cells []string) string {

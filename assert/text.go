@@ -14,6 +14,7 @@ import (
 	"golang.org/x/term"
 
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/printable"
 	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
@@ -95,7 +96,7 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 		tw.section(fmt.Sprintf("schema changes (%d)", len(d.Schema)))
 		rows := [][]string{{"column", "change", d.wantName(), d.gotName()}}
 		for _, s := range d.Schema {
-			rows = append(rows, []string{s.Column, d.describeChange(s.Change), s.Want, s.Got})
+			rows = append(rows, []string{printable.Name(s.Column), d.describeChange(s.Change), s.Want, s.Got})
 		}
 		tw.table(rows, nil, map[int]string{2: ansiWant, 3: ansiGot})
 	}
@@ -124,7 +125,7 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 		tw.section("columns")
 		rows := [][]string{{"column", "how compared", "cells differ", "max abs. diff", "max rel. diff", "where max"}}
 		for _, c := range cols {
-			row := []string{c.Name, c.Rule, strconv.Itoa(c.Differing), "", "", ""}
+			row := []string{printable.Name(c.Name), c.Rule, strconv.Itoa(c.Differing), "", "", ""}
 			if c.HasDelta && c.MaxAbsAt.Want >= 0 {
 				row[3], row[5] = formatAbs(c.MaxAbs, c.WantType.Kind()), d.rowName(c.MaxAbsAt)
 				if !isTimeKind(c.WantType.Kind()) && !isTimeKind(c.GotType.Kind()) && c.MaxRelAt.Want >= 0 {
@@ -180,7 +181,7 @@ func (d *Diff) matchLine() string {
 	how := "rows paired by position"
 	switch d.Match {
 	case MatchByKey:
-		how = "rows matched by key (" + strings.Join(d.Keys, ", ") + ")"
+		how = "rows matched by key (" + strings.Join(shownNames(d.Keys), ", ") + ")"
 	case MatchAsMultiset:
 		how = "rows matched in any order"
 	}
@@ -280,7 +281,9 @@ func (w *textWriter) cells(d *Diff) {
 	head := []string{}
 	keyed := d.Match == MatchByKey && len(d.Keys) > 0
 	if keyed {
-		head = append(head, d.Keys...)
+		for _, k := range d.Keys {
+			head = append(head, printable.Name(k))
+		}
 	} else {
 		head = append(head, "row")
 	}
@@ -317,7 +320,7 @@ func (w *textWriter) cells(d *Diff) {
 				rel = formatRel(c.Delta.Rel)
 			}
 		}
-		row = append(row, c.Column, c.Want.Text, c.Got.Text, abs, rel)
+		row = append(row, printable.Name(c.Column), c.Want.Text, c.Got.Text, abs, rel)
 		edit := ""
 		if ws, gs, ok := textPair(c); ok {
 			if e, ok := textEdit(ws, gs, st); ok {
@@ -413,7 +416,7 @@ func (w *textWriter) rowList(d *Diff, title, note string, l RowList, cols []stri
 	head := []string{"row"}
 	paint := map[int]string{}
 	for k, j := range order {
-		head = append(head, cols[j])
+		head = append(head, printable.Name(cols[j]))
 		paint[k+1] = colour
 	}
 	t := w.newTable(head, map[int]bool{0: true}, paint)

@@ -8,6 +8,7 @@ import (
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/printable"
 )
 
 // ReviewStatus says what became of one golden file between two versions.
@@ -333,7 +334,7 @@ func hasColumns(t *fixtures.Table, cols []string) bool {
 func tablePreview(t *fixtures.Table) ([]string, [][]string) {
 	cols := make([]string, 0, t.NumCols())
 	for _, fd := range t.Schema() {
-		cols = append(cols, fd.Name+":"+fd.Type.String())
+		cols = append(cols, printable.Name(fd.Name)+":"+fd.Type.String())
 	}
 	var rows [][]string
 	for i := 0; i < min(previewRows, t.NumRows()); i++ {

@@ -14,6 +14,7 @@ import (
 	"strings"
 
 	"github.com/proofsheet/proofsheet/assert"
+	"github.com/proofsheet/proofsheet/internal/printable"
 	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
@@ -102,7 +103,7 @@ func tableSummary(f *FileReview) string {
 		s = "equal within tolerance"
 	}
 	if c, ok := largestDelta(d); ok {
-		s += fmt.Sprintf("; max abs. diff %s (%s)", formatDelta(c.MaxAbs), c.Name)
+		s += fmt.Sprintf("; max abs. diff %s (%s)", formatDelta(c.MaxAbs), printable.Name(c.Name))
 	}
 	return s
 }
@@ -134,7 +135,11 @@ func keyList(keys []string) string {
 	if len(keys) == 0 {
 		return "none"
 	}
-	return strings.Join(keys, ", ")
+	out := make([]string, len(keys))
+	for i, k := range keys {
+		out[i] = printable.Name(k)
+	}
+	return strings.Join(out, ", ")
 }
 
 func plural(n int, one, many string) string {
@@ -194,7 +199,7 @@ func (r *Review) Markdown() string {
 		if f.Status != ReviewUnchanged {
 			status = "**" + status + "**"
 		}
-		p("| %s | %s | %s | %s | %s |\n", mdSpan(f.Path), status, f.Kind, f.Rows(), mdText(f.Summary()))
+		p("| %s | %s | %s | %s | %s |\n", mdSpan(printable.Name(f.Path)), status, f.Kind, f.Rows(), mdText(f.Summary()))
 	}
 	left := 0
 	for _, f := range r.Files {
@@ -220,7 +225,7 @@ func mdSection(f *FileReview) string {
 	var b strings.Builder
 	p := func(format string, args ...any) { fmt.Fprintf(&b, format, args...) }
 	body := false
-	p("\n### %s — %s\n\n", mdSpan(f.Path), f.Status.Label())
+	p("\n### %s — %s\n\n", mdSpan(printable.Name(f.Path)), f.Status.Label())
 	if f.Test != "" {
 		p("Checked by %s.\n\n", mdSpan(f.Test))
 	}
@@ -368,7 +373,7 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 	}
 	rows := [][]string{{"status", "kind", "rows", "file"}}
 	for _, f := range r.Files {
-		rows = append(rows, []string{f.Status.Label(), string(f.Kind), f.Rows(), f.Path})
+		rows = append(rows, []string{f.Status.Label(), string(f.Kind), f.Rows(), printable.Name(f.Path)})
 	}
 	widths := make([]int, 4)
 	for _, row := range rows {
@@ -386,7 +391,7 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 		b.WriteString(line + "\n")
 	}
 	for _, f := range r.Files {
-		b.WriteString("\n" + bold(textwidth.Truncate("== "+f.Path+" ("+f.Status.Label()+")", st.Width)) + "\n")
+		b.WriteString("\n" + bold(textwidth.Truncate("== "+printable.Name(f.Path)+" ("+f.Status.Label()+")", st.Width)) + "\n")
 		b.WriteString(indent(textwidth.Truncate(f.Summary(), st.Width-2)) + "\n")
 		if f.Test != "" {
 			b.WriteString("  checked by " + f.Test + "\n")

@@ -31,3 +31,20 @@ func TestReviewNewUnreadable(t *testing.T) {
 	f := ReviewChange(FileChange{Path: "j.gold.json", Old: []byte("{}"), New: []byte("{"), OldExists: true, NewExists: true})
 	require.True(t, f.NewUnreadable)
 }
+
+// TestReviewEscapesNames: column and file names with terminal escape
+// sequences (ECMA-48 CSI) are quoted in the text and Markdown summaries.
+func TestReviewEscapesNames(t *testing.T) {
+	old := []byte("# proofsheet sheet v2\n# keys: \"k\\x1b[2J\"\n# rows: 1\n# match: by key\n\"k\\x1b[2J\":int64 | \"v\\x1b]0;t\\a\":float64\n1 | 1.5\n")
+	cur := []byte("# proofsheet sheet v2\n# keys: \"k\\x1b[2J\"\n# rows: 1\n# match: by key\n\"k\\x1b[2J\":int64 | \"v\\x1b]0;t\\a\":float64\n1 | 2.5\n")
+	f := ReviewChange(FileChange{Path: "testdata/x\x1b[8m.gold.tbl", Old: old, New: cur, OldExists: true, NewExists: true})
+	require.Empty(t, f.Problems)
+	rv := &Review{Files: []FileReview{f, ReviewChange(FileChange{Path: "n.gold.tbl", New: cur, NewExists: true})}}
+	for name, out := range map[string]string{"text": rv.Text(), "markdown": rv.Markdown()} {
+		for _, r := range out {
+			require.False(t, r != '\n' && (r < 0x20 || r == 0x7f || (r >= 0x80 && r < 0xa0)), "%s: control %U in:\n%s", name, r, out)
+		}
+		require.Contains(t, out, `"v\x1b]0;t\a"`, name)
+		require.Contains(t, out, `"testdata/x\x1b[8m.gold.tbl"`, name)
+	}
+}
