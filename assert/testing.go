@@ -33,7 +33,11 @@ func Tables(t TestingT, want, got *fixtures.Table, opts ...Option) bool {
 	if d.Equal() {
 		return true
 	}
-	t.Errorf("%s", d.Text())
+	name := "table comparison"
+	if n, ok := t.(interface{ Name() string }); ok {
+		name = n.Name() + ": table comparison"
+	}
+	t.Errorf("%s%s", d.Text(), artifactNote(t, d, name))
 	return false
 }
 

@@ -113,6 +113,21 @@
 // or by tests that skipped themselves, look stale as well: list before you
 // prune.
 //
+// # Inline tables
+//
+// InlineTable keeps the wanted table in the test's source, as the string
+// literal of the call, instead of in a file under testdata/: write the
+// call with an empty literal and run with -update, and the table is
+// written there (with its rules, gofmt-clean, only that literal changed).
+// It suits small tables that read best next to the code; tables of
+// table-driven tests and large tables belong in golden files.
+//
+// # Test artifacts
+//
+// In a test run with go test -artifacts (Go 1.26), a failing Table or
+// InlineTable check writes the Diff's HTML page to t.ArtifactDir() and
+// names it in the failure (see assert.WriteArtifactPage).
+//
 // # Run records
 //
 // When PROOFSHEET_RECORDS names a directory, every check appends a Record

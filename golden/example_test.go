@@ -27,6 +27,27 @@ func ExampleTable() {
 		assert.Tol("tmean", 1e-9, 0))
 }
 
+func ExampleInlineTable() {
+	// In a test function:
+	var t *testing.T // the test's *testing.T
+	got := fixtures.MustParse(t, `
+		house:string | tmax:float64
+		Kæreby       | 19.5
+		Bellecôte    | 22.6
+	`)
+	// Written as InlineTable(t, got, ``, assert.ByKey("house")), then
+	// filled in by `go test -update`:
+	golden.InlineTable(t, got, `
+		# proofsheet sheet v2
+		# keys: house
+		# rows: 2
+		# match: by key
+		house:string | tmax:float64
+		Bellecôte    | 22.6
+		Kæreby       | 19.5
+	`, assert.ByKey("house"))
+}
+
 func ExampleRunTests() {
 	// In the package's main_test.go:
 	//

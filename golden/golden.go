@@ -10,6 +10,7 @@ import (
 	"regexp"
 	"strings"
 
+	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
 )
 
@@ -186,6 +187,7 @@ type result struct {
 	diffRec json.RawMessage // the difference as data (tables), for records
 	note    string          // about the rules compared under (tables), for the log and the failure
 	rewrite bool            // update mode rewrites the file even when equal (to store new rules)
+	d       *assert.Diff    // the table difference, for the HTML page of -artifacts
 }
 
 // settle turns a result into the check's outcome: pass, fail with the
@@ -230,6 +232,9 @@ func (c *check) settle(r result, encode func() ([]byte, error)) bool {
 		fmt.Fprintf(&msg, "golden: %s: got differs from the golden file (want):\n%s\n", c.show, strings.TrimRight(r.diff, "\n"))
 		if r.note != "" {
 			fmt.Fprintf(&msg, "Note: %s.\n", r.note)
+		}
+		if page := assert.WriteArtifactPage(c.t, r.d, c.show); page != "" {
+			fmt.Fprintf(&msg, "HTML diff page: %s\n", page)
 		}
 		hint = "If the change is intended, rewrite the file and review it in your diff; from the module root run:"
 	}

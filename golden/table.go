@@ -61,7 +61,7 @@ func (s Store) Table(t T, name string, got *fixtures.Table, opts ...assert.Optio
 				r.equal = true
 				return r
 			}
-			r.diff = d.Text()
+			r.diff, r.d = d.Text(), d
 			if js, err := d.JSON(); err == nil {
 				r.diffRec = js
 			}
