@@ -2,5 +2,5 @@ package main
 
 // moreCommands returns the subcommands beyond profile.
 func moreCommands() []*command {
-	return []*command{diffCommand(), goldenCommand(), changesCommand(), genCommand(), demoCommand()}
+	return []*command{diffCommand(), hammerCommand(), goldenCommand(), changesCommand(), genCommand(), demoCommand()}
 }
