@@ -9,6 +9,8 @@ import (
 	"testing"
 
 	"github.com/stretchr/testify/require"
+
+	"github.com/proofsheet/proofsheet/assert"
 )
 
 // readmeBlock returns the first fenced code block of the given language
@@ -109,4 +111,69 @@ func TestReadmeQuickStartCLI(t *testing.T) {
 	require.True(t, first >= 0 && second > first, out)
 	require.Contains(t, out, "Bellecôte  tmax    22.6  22.61")
 	require.Contains(t, out, "encoding    windows-1252")
+}
+
+// TestReadmeFromPython runs the README's "From Python, R or SQL" blocks as
+// written, with their /tmp paths moved into a temporary directory: hammer
+// passes the Python chain and finds its planted bug, shrunk to at most 3
+// rows in a kept file that reproduces the failure when the chain is run on
+// it by hand; golden creates, passes, fails on a real change and refuses
+// updates under CI.
+func TestReadmeFromPython(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the command and runs a Python chain")
+	}
+	needTool(t, "python3")
+	tmp := t.TempDir()
+	run := func(block string) string {
+		block = strings.ReplaceAll(block, "/tmp/", tmp+"/")
+		cmd := exec.Command("bash", "-c", block)
+		cmd.Dir = repoFile()
+		cmd.Env = cleanEnv(stepSummaryVar + "=")
+		out, err := cmd.CombinedOutput()
+		require.NoError(t, err, "%s", out)
+		return string(out)
+	}
+	statuses := func(out string) []string {
+		return regexp.MustCompile(`(?m)^exit status (\d)$`).FindAllString(out, -1)
+	}
+
+	out := run(readmeBlock(t, "**Throw generated mess at it.**", "sh"))
+	require.Equal(t, []string{"exit status 0", "exit status 1"}, statuses(out), out)
+	require.Contains(t, out, "FAILED same-on-plain")
+	require.Contains(t, out, "Shrunk from")
+
+	// The kept input has at most 3 rows, and the chain run on it by hand,
+	// as reproduce.txt says, fails the same way; the fixed chain does not.
+	failing := filepath.Join(tmp, "failing")
+	kept, err := os.ReadFile(filepath.Join(failing, "sample.csv"))
+	require.NoError(t, err)
+	require.LessOrEqual(t, strings.Count(string(kept), "\n")-1, 3, "%q", kept)
+	repro, err := os.ReadFile(filepath.Join(failing, "reproduce.txt"))
+	require.NoError(t, err)
+	_, byHand, ok := strings.Cut(string(repro), "# Run the program on the kept input by hand:\n")
+	require.True(t, ok, "%s", repro)
+	cmds := strings.Split(strings.TrimSpace(byHand), "\n")
+	require.Len(t, cmds, 2)
+	work := t.TempDir()
+	for _, name := range []string{"daily.py", "daily_bug.py"} {
+		data, err := os.ReadFile(repoFile("testdata", "greenhouse", "chains", name))
+		require.NoError(t, err)
+		require.NoError(t, os.WriteFile(filepath.Join(work, name), data, 0o644))
+	}
+	messy := runByHand(t, work, cmds[0], "out.csv")
+	plain := runByHand(t, work, cmds[1], "out-plain.csv")
+	require.False(t, assert.Compare(typeNullColumns(plain, messy), typeNullColumns(messy, plain), assert.ByKey("house", "day")).Equal(),
+		"the kept input reproduces the failure by hand")
+	fixed := func(c string) string { return strings.Replace(c, "daily_bug.py", "daily.py", 1) }
+	require.True(t, assert.Compare(runByHand(t, work, fixed(cmds[1]), "out-plain.csv"), runByHand(t, work, fixed(cmds[0]), "out.csv"), assert.ByKey("house", "day")).Equal())
+
+	out = run(readmeBlock(t, "**Keep golden files of its outputs.**", "sh"))
+	require.Equal(t, []string{"exit status 0", "exit status 0", "exit status 1", "exit status 2"}, statuses(out), out)
+	require.Contains(t, out, "# proofsheet sheet v2\n# keys: house, day\n")
+	require.Contains(t, out, "# tol: *=abs:1e-09\n")
+	require.Contains(t, out, "golden files are not updated in CI")
+	stored, err := os.ReadFile(filepath.Join(tmp, "report", "testdata", "golden", "notes.gold.txt"))
+	require.NoError(t, err)
+	require.Equal(t, "uploads 3\n", string(stored))
 }
