@@ -55,7 +55,6 @@ Options:
 ` + tolHelp + `
   --ignore COLS      leave these comma-separated table columns out
   --loose-types      compare values across types: 3 equals 3.0
-  --as-text          read every column of a table output as text
   --format F         text (default), markdown or json
   --max-cells N      list at most N differing cells per table (default 20)
   --junit FILE       also write a JUnit XML report to FILE: one test case
@@ -64,6 +63,9 @@ Options:
 
 When ` + stepSummaryVar + ` names a file (CI job summaries), the Markdown
 report is appended to it. The JSON has a "schema_version" field.
+
+` + readerHelp + `
+  (Reader options apply to the table outputs; - is not an output.)
 
 Example:
   proofsheet golden --update --key house,day --tol '*=abs:1e-9' \
@@ -104,7 +106,7 @@ func runGolden(e *env, c *command, args []string) int {
 	fs.Var(&tols, "tol", "")
 	ignore := fs.String("ignore", "", "")
 	loose := fs.Bool("loose-types", false, "")
-	asText := fs.Bool("as-text", false, "")
+	rf := addReaderFlags(fs)
 	format := fs.String("format", "text", "")
 	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
 	junit := fs.String("junit", "", "")
@@ -155,9 +157,14 @@ func runGolden(e *env, c *command, args []string) int {
 			return trouble(e, c, "not updated: %v", err)
 		}
 	}
-	var readOpts []fixtures.ReadOption
-	if *asText {
-		readOpts = append(readOpts, fixtures.AllText())
+	readOpts, err := rf.options()
+	if err != nil {
+		return trouble(e, c, "%v", err)
+	}
+	for _, f := range files {
+		if f == "-" {
+			return trouble(e, c, "- (standard input) has no name to name a golden file by; give the output's file")
+		}
 	}
 
 	// Name each output's golden file; two outputs may not share one.
@@ -333,7 +340,8 @@ func displayPath(p string) string {
 }
 
 // updateCommandLine is the golden command that writes the golden files of
-// the given outputs with the same store and rules as this run.
+// the given outputs with the same store, rules and reader options as this
+// run.
 func updateCommandLine(fs *flag.FlagSet, files []string) string {
 	parts := []string{"proofsheet", "golden", "--update"}
 	fs.Visit(func(f *flag.Flag) {
@@ -341,24 +349,50 @@ func updateCommandLine(fs *flag.FlagSet, files []string) string {
 		case "update", "format", "junit", "quiet", "max-cells":
 			return
 		}
-		if tf, ok := f.Value.(*tolFlags); ok {
-			for _, spec := range *tf {
-				parts = append(parts, "--"+f.Name, shellQuote(spec))
-			}
-			return
-		}
-		if bf, ok := f.Value.(interface{ IsBoolFlag() bool }); ok && bf.IsBoolFlag() {
-			if f.Value.String() == "true" {
-				parts = append(parts, "--"+f.Name)
-			}
-			return
-		}
-		parts = append(parts, "--"+f.Name, shellQuote(f.Value.String()))
+		parts = append(parts, flagWords(f)...)
 	})
 	for _, f := range files {
 		parts = append(parts, shellQuote(f))
 	}
 	return strings.Join(parts, " ")
+}
+
+// flagWords are the command-line words, shell-quoted, that give a flag
+// the value it has: --name VALUE, --name for a true switch, one --name
+// VALUE per value of a repeatable flag.
+func flagWords(f *flag.Flag) []string {
+	var out []string
+	switch v := f.Value.(type) {
+	case *tolFlags:
+		for _, s := range *v {
+			out = append(out, "--"+f.Name, shellQuote(s))
+		}
+		return out
+	case *listFlag:
+		for _, s := range *v {
+			out = append(out, "--"+f.Name, shellQuote(s))
+		}
+		return out
+	case *strictFlag:
+		if !v.set {
+			return nil
+		}
+		if len(v.kinds) == 0 {
+			return []string{"--" + f.Name}
+		}
+		var kinds []string
+		for _, k := range v.kinds {
+			kinds = append(kinds, string(k))
+		}
+		return []string{"--" + f.Name + "=" + shellQuote(strings.Join(kinds, ","))}
+	}
+	if bf, ok := f.Value.(interface{ IsBoolFlag() bool }); ok && bf.IsBoolFlag() {
+		if f.Value.String() == "true" {
+			return []string{"--" + f.Name}
+		}
+		return []string{"--" + f.Name + "=false"}
+	}
+	return []string{"--" + f.Name, shellQuote(f.Value.String())}
 }
 
 // shellQuote quotes s for a POSIX shell when it needs it.

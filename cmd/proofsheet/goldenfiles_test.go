@@ -220,3 +220,19 @@ func TestGoldenBadInput(t *testing.T) {
 }
 
 func jsonRawMessage(s string) any { return json.RawMessage(s) }
+
+func TestUpdateCommandLine(t *testing.T) {
+	c := goldenCommand()
+	fs := newFlags(c)
+	fs.Bool("update", false, "")
+	fs.String("store", defaultStore, "")
+	var tols tolFlags
+	fs.Var(&tols, "tol", "")
+	fs.Bool("loose-types", false, "")
+	addReaderFlags(fs)
+	fs.String("format", "text", "")
+	require.NoError(t, fs.Parse([]string{"--format", "json", "--store", "gold en", "--tol", "*=abs:1e-9", "--tol", "tmax=rel:0.1",
+		"--loose-types", "--types", "kept=int64", "--types", "day=date", "--strict=bare-quote"}))
+	require.Equal(t, "proofsheet golden --update --loose-types --store 'gold en' --strict=bare-quote --tol '*=abs:1e-9' --tol tmax=rel:0.1 --types kept=int64 --types day=date out/daily.csv 'out/my notes.txt'",
+		updateCommandLine(fs, []string{"out/daily.csv", "out/my notes.txt"}))
+}

@@ -65,7 +65,7 @@ Options:
   --timeout D        each run's time limit, after which the program's whole
                      process group is killed (default 30s)
   --out-format F     the format of the output: csv (default), tsv, jsonl,
-                     json, arrow or parquet
+                     json, arrow or parquet (the extension of {out})
   --keep DIR         write the smallest failing input there (and its
                      variant, the outputs and a reproduce.txt)
   --max-shrinks N    most candidate inputs tried while shrinking (default
@@ -73,6 +73,9 @@ Options:
   --format F         text (default), markdown or json
   --junit FILE       also write a JUnit XML report: one test case per check
   --quiet            print no progress on stderr
+
+` + readerHelp + `
+  (Reader options apply to reading the program's outputs.)
 
 Each run gets a fresh temporary directory (TMPDIR points into it), removed
 when the run ends, and nothing is left behind when hammer ends. When
@@ -151,6 +154,7 @@ func runHammer(e *env, c *command, args []string) int {
 	fs.Var(&tols, "tol", "")
 	ignore := fs.String("ignore", "", "")
 	loose := fs.Bool("loose-types", false, "")
+	rf := addReaderFlags(fs)
 	samples := fs.Int("samples", defaultSamples, "")
 	rows := fs.Int("rows", defaultRows, "")
 	files := fs.Int("files", 0, "")
@@ -258,6 +262,11 @@ func runHammer(e *env, c *command, args []string) int {
 	}
 	opts = append(opts, assert.ListLimit(assert.DefaultListLimit))
 
+	readOpts, err := rf.options()
+	if err != nil {
+		return trouble(e, c, "%v", err)
+	}
+
 	text, err := os.ReadFile(*schemaFile)
 	if err != nil {
 		return trouble(e, c, "--schema: %v", err)
@@ -287,7 +296,7 @@ func runHammer(e *env, c *command, args []string) int {
 		e: e, schemaFile: *schemaFile, spec: spec, program: *program, checks: checks,
 		samples: *samples, rows: *rows, files: *files, seed: seed, seedFrom: seedFrom, jobs: *jobs,
 		maxShrinks: *maxShrinks, keep: *keep, start: time.Now(),
-		judge: &judge{rn: &runner{root: root, timeout: *timeout, outExt: outExt}, program: *program, opts: opts, keyed: keyed},
+		judge: &judge{rn: &runner{root: root, timeout: *timeout, outExt: outExt, readOpts: readOpts}, program: *program, opts: opts, keyed: keyed},
 	}
 	h.reproduce = reproduceLine(fs, seed)
 	bar := newProgress(e, *quiet)
@@ -340,19 +349,7 @@ func reproduceLine(fs *flag.FlagSet, seed int64) string {
 		case "seed", "format", "junit", "quiet", "jobs":
 			continue
 		}
-		if tf, ok := f.Value.(*tolFlags); ok {
-			for _, v := range *tf {
-				parts = append(parts, "--"+f.Name, shellQuote(v))
-			}
-			continue
-		}
-		if bf, ok := f.Value.(interface{ IsBoolFlag() bool }); ok && bf.IsBoolFlag() {
-			if f.Value.String() == "true" {
-				parts = append(parts, "--"+f.Name)
-			}
-			continue
-		}
-		parts = append(parts, "--"+f.Name, shellQuote(f.Value.String()))
+		parts = append(parts, flagWords(f)...)
 	}
 	return strings.Join(append(parts, "--seed", strconv.FormatInt(seed, 10)), " ")
 }
