@@ -34,16 +34,32 @@
 // second time in one run: each golden file belongs to one check.
 //
 // A table file is a literal table (fixtures.Parse) without padding, after
-// a few lines of metadata — see EncodeTable. Rows are sorted by the key
-// columns (by bytes, so "Les Pins" before "Étang") when the check matches
-// rows by key. It reads like this in a pull request:
+// a few lines of metadata — see EncodeTableRules. Rows are sorted by the
+// key columns (by bytes, so "Les Pins" before "Étang") when the check
+// matches rows by key. It reads like this in a pull request:
 //
-//	# proofsheet sheet v1
+//	# proofsheet sheet v2
 //	# keys: house, day
 //	# rows: 2
+//	# match: by key
+//	# tol: tmax=abs:0.005
 //	house:string | day:date | tmax:float64 | kept:int64
 //	Les Pins | 2026-04-01 | ~ | 0
 //	Étang | 2026-04-01 | 21.5 | 140
+//
+// # Rules stored with the table
+//
+// The header keeps the rules the file was written with — how rows match,
+// tolerances, ignored columns, text normalisations, switches (see
+// assert.Rules) — so a later check, in Go or with proofsheet golden, needs
+// no options: golden.Table(t, "daily", got) compares under the stored
+// rules. Rules given to a check go on top of the stored ones, rule by rule
+// (see MergeRules); when that changes them, the check uses the new rules,
+// says so in the test log (and in its failure), and an update stores them.
+// The review of changed golden files compares the two versions under the
+// rules the new one stores, and counts a change of rules as a change.
+// Files written before rules were stored (sheet v1) still read; their keys
+// are their only rule.
 //
 // Text files hold the text as it is. JSON files hold canonical JSON (see
 // CanonicalJSON) and are compared by structure, reporting differences by

@@ -138,16 +138,16 @@ func TestHammerAwkChain(t *testing.T) {
 
 	checks := []string{"--check", "runs", "--check", "order-free", "--check", "same-on-plain", "--check", "no-nulls=house,day",
 		"--check", "unique=house,day", "--check", "repeatable", "--check", "balance=sum(kept) + sum(dropped) = in.rows(house, logged_at)"}
-	rep, r = runHammerJSON(t, dir, append(append([]string{"--run", "sh daily.sh {in} {out}", "--samples", "30"}, checks...), common...)...)
+	rep, r = runHammerJSON(t, dir, append(append([]string{"--run", "sh daily.sh {in} {out}", "--samples", "20"}, checks...), common...)...)
 	require.Equal(t, exitSame, r.code, "%s\n%s", r.stdout, r.stderr)
 	require.Len(t, rep.Checks, 7)
 	for _, c := range rep.Checks {
-		require.Equal(t, "held on 30 samples", c.Result, c.Check)
+		require.Equal(t, "held on 20 samples", c.Result, c.Check)
 	}
 
 	// The fixed chains agree with each other; the buggy one does not.
 	if _, err := exec.LookPath("python3"); err == nil {
-		rep, r = runHammerJSON(t, dir, append([]string{"--run", "sh daily.sh {in} {out}", "--samples", "6", "--check", "agrees=python3 daily.py {in} {out}"}, common...)...)
+		rep, r = runHammerJSON(t, dir, append([]string{"--run", "sh daily.sh {in} {out}", "--samples", "4", "--check", "agrees=python3 daily.py {in} {out}"}, common...)...)
 		require.Equal(t, exitSame, r.code, "%s\n%s", r.stdout, r.stderr)
 	}
 	rep, r = runHammerJSON(t, dir, append([]string{"--run", "sh daily_bug.sh {in} {out}", "--samples", "20", "--check", "agrees=sh daily.sh {in} {out}"}, common...)...)
