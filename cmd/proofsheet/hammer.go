@@ -509,7 +509,7 @@ func (h *hammerRun) hammer(ctx context.Context, bar *progress) {
 			others = append(others, v)
 		}
 	}
-	if err := h.programTrouble(failing.base, results); err != nil {
+	if err := h.programTrouble(ctx, first, failing.base, results); err != nil {
 		h.trouble = err
 		return
 	}
@@ -530,8 +530,10 @@ func (h *hammerRun) hammer(ctx context.Context, bar *progress) {
 }
 
 // programTrouble tells trouble apart from a failure: a program the shell
-// cannot find or run, or one that timed out on every sample that ended.
-func (h *hammerRun) programTrouble(base *runResult, results []*sampleResult) error {
+// cannot find or run, or one that times out on every input — when the
+// failing sample timed out and no other run ended by itself, the next
+// sample is run to see whether any does.
+func (h *hammerRun) programTrouble(ctx context.Context, first int, base *runResult, results []*sampleResult) error {
 	if base.startErr != nil {
 		return fmt.Errorf("the program could not be started: %w", base.startErr)
 	}
@@ -549,18 +551,25 @@ func (h *hammerRun) programTrouble(base *runResult, results []*sampleResult) err
 		}
 		return errors.New(msg)
 	}
-	if base.timedOut {
-		for _, r := range results {
-			if r == nil || r.err != nil || len(r.verdicts) == 0 {
-				continue
-			}
-			if !r.verdicts[0].base.timedOut && r.verdicts[0].base.killed == "" {
+	if !base.timedOut {
+		return nil
+	}
+	for _, r := range results {
+		if r == nil || r.err != nil || len(r.verdicts) == 0 {
+			continue
+		}
+		if b := r.verdicts[0].base; !b.timedOut && b.killed == "" {
+			return nil // some run ended by itself
+		}
+	}
+	if first+1 < h.samples {
+		if s, err := h.makeSample(first + 1); err == nil {
+			if r := h.judge.rn.run(ctx, h.program, s.input()); !r.timedOut && r.killed == "" {
 				return nil
 			}
 		}
-		return fmt.Errorf("every run timed out (--timeout %v): raise --timeout, or see whether the program waits for input", h.judge.rn.timeout)
 	}
-	return nil
+	return fmt.Errorf("every run timed out (--timeout %v): raise --timeout, or see whether the program waits for input", h.judge.rn.timeout)
 }
 
 // shrink finds the smallest input on which the check fails the same way,
