@@ -600,6 +600,10 @@ func (a *across) keysOf() []string {
 func (a *across) finish() error {
 	d := a.diff
 	d.WantRows, d.GotRows = a.w.n, a.g.n
+	// The pictures' overview needs every row of both tables at once; the
+	// chunks cannot build it, so a Diff across two places has none, as a
+	// Diff pushed into an engine has none (README, Engines).
+	d.Overview = nil
 	for i := range d.Columns {
 		c := &d.Columns[i]
 		if m := a.maxAbs[c.Name]; m != nil {

@@ -345,7 +345,7 @@ func lineDiff(a, b string) string {
 		}
 		if x != y {
 			ctx := ""
-			for j := i - 1; j >= 0 && j > i-12; j-- {
+			for j := min(i, len(al)) - 1; j >= 0 && j > i-12; j-- {
 				if strings.Contains(al[j], "\"name\"") || strings.Contains(al[j], "\"column\"") || strings.Contains(al[j], "\"want\": ") && j == i-1 {
 					ctx = strings.TrimSpace(al[j])
 					break
