@@ -2,10 +2,12 @@ package pushdown
 
 import (
 	"context"
+	"database/sql"
 	"fmt"
 	"math/big"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/proofsheet/proofsheet/assert"
@@ -37,10 +39,10 @@ const acrossChunk = 1 << 15
 // out of order (an engine sorting text by a collation) stops the
 // comparison with an error rather than a wrong Diff.
 func CompareAcross(ctx context.Context, want, got Source, opts ...assert.Option) (*assert.Diff, error) {
-	return compareAcross(ctx, want, got, acrossChunk, opts)
+	return compareAcross(ctx, want, got, acrossChunk, acrossPage, opts)
 }
 
-func compareAcross(ctx context.Context, want, got Source, chunk int, opts []assert.Option) (*assert.Diff, error) {
+func compareAcross(ctx context.Context, want, got Source, chunk, page int, opts []assert.Option) (*assert.Diff, error) {
 	set := assert.SettingsOf(opts...)
 	if set.Match == assert.MatchAsMultiset {
 		return nil, refusal{"AnyRowOrder cannot be done across two places: rows are merged by key; give the key columns (ByKey)"}
@@ -50,7 +52,7 @@ func compareAcross(ctx context.Context, want, got Source, chunk int, opts []asse
 			return nil, refusal{fmt.Sprintf("NormText on key column %q cannot be done across two places: the engines order the keys as they are", k)}
 		}
 	}
-	a := &across{set: set, chunk: chunk}
+	a := &across{set: set, chunk: chunk, page: page}
 	var err error
 	if a.w, err = a.open(ctx, want, "want"); err != nil {
 		return nil, err
@@ -110,6 +112,7 @@ type stream struct {
 type across struct {
 	set   assert.Settings
 	chunk int // pairs compared at a time
+	page  int // rows a DuckDB stream fetches at a time
 	w, g  *stream
 	diff  *assert.Diff
 	keys  []string // the key columns (ByKey), else none: rows pair by position
@@ -179,7 +182,7 @@ func (a *across) open(ctx context.Context, src Source, which string) (*stream, e
 
 // start runs the side's query: every row with its number, ordered by the
 // keys (or the number).
-func (s *stream) start(ctx context.Context) error {
+func (s *stream) start(ctx context.Context, page int) error {
 	d := s.plan.d
 	order := []string{}
 	for _, k := range s.keys {
@@ -194,12 +197,24 @@ func (s *stream) start(ctx context.Context) error {
 	for i := range s.side.names {
 		names = append(names, p2fetch(s.plan, cName(i), s.side.types[i].t))
 	}
+	if s.src.Engine.Dialect == DuckDB {
+		return s.startPaged(ctx, names, order, page)
+	}
 	q := d.statement("SELECT " + strings.Join(names, ", ") + " FROM (" + s.plan.base(s.side) + ") AS b ORDER BY " + strings.Join(order, ", "))
 	rows, err := s.src.Engine.DB.QueryContext(ctx, q)
 	if err != nil {
 		return &QueryError{SQL: q, Err: err}
 	}
-	n := len(names)
+	s.read(rows, q, len(names))
+	s.close = func() { rows.Close() }
+	return s.advance()
+}
+
+// read sets the stream's rows and its scan of n columns.
+func (s *stream) read(rows interface {
+	Next() bool
+	Scan(dest ...any) error
+}, q string, n int) {
 	vals := make([]any, n)
 	ptrs := make([]any, n)
 	for i := range vals {
@@ -216,9 +231,93 @@ func (s *stream) start(ctx context.Context) error {
 		}
 		return out, nil
 	}
-	s.close = func() { rows.Close() }
-	return s.advance()
 }
+
+// acrossPage is how many sorted rows a DuckDB stream fetches at a time.
+const acrossPage = 1 << 16
+
+// startPaged streams a DuckDB side in key order in bounded memory. The
+// DuckDB driver holds a query's whole result in memory before the first
+// row comes back, so one ORDER BY query over a large file costs memory in
+// proportion to its rows. Instead the sorted rows go into a temporary
+// table (DuckDB sorts and stores it within its memory_limit, spilling to
+// its temp_directory) and come back a page at a time by row id, in the
+// order they were stored. The table lives on one connection of its own and
+// is dropped when the stream closes.
+func (s *stream) startPaged(ctx context.Context, names, order []string, page int) error {
+	conn, err := s.src.Engine.DB.Conn(ctx)
+	if err != nil {
+		return fmt.Errorf("pushdown: reading %s: %w", s.side.rel, err)
+	}
+	aliased := make([]string, len(names))
+	for i, x := range names {
+		aliased[i] = x + " AS q" + strconv.Itoa(i)
+	}
+	const tbl = "proofsheet_across_sorted"
+	q := "CREATE TEMP TABLE " + tbl + " AS SELECT " + strings.Join(aliased, ", ") + " FROM (" + s.plan.base(s.side) + ") AS b ORDER BY " + strings.Join(order, ", ")
+	if _, err := conn.ExecContext(ctx, q); err != nil {
+		conn.Close()
+		return &QueryError{SQL: q, Err: err}
+	}
+	p := &pagedRows{ctx: ctx, conn: conn, page: int64(page), q: "SELECT * FROM " + tbl + " WHERE rowid >= ? AND rowid < ? ORDER BY rowid"}
+	s.read(p, p.q, len(names))
+	s.rows = p
+	s.close = func() {
+		if p.rows != nil {
+			p.rows.Close()
+		}
+		// A fresh context: the table must go even when ctx was cancelled.
+		conn.ExecContext(context.Background(), "DROP TABLE IF EXISTS "+tbl)
+		conn.Close()
+	}
+	if err := s.advance(); err != nil {
+		s.close()
+		return err
+	}
+	return nil
+}
+
+// pagedRows reads a stored table page by page, in row id order, as one
+// stream of rows.
+type pagedRows struct {
+	ctx  context.Context
+	conn *sql.Conn
+	q    string
+	page int64 // rows per page
+	lo   int64 // the first row id of the current page
+	rows *sql.Rows
+	got  int // rows read from the current page
+	err  error
+}
+
+func (p *pagedRows) Next() bool {
+	for p.err == nil {
+		if p.rows == nil {
+			p.rows, p.err = p.conn.QueryContext(p.ctx, p.q, p.lo, p.lo+p.page)
+			p.got = 0
+			if p.err != nil {
+				p.err = &QueryError{SQL: p.q, Err: p.err}
+				return false
+			}
+		}
+		if p.rows.Next() {
+			p.got++
+			return true
+		}
+		p.err = p.rows.Err()
+		p.rows.Close()
+		p.rows = nil
+		if int64(p.got) < p.page {
+			return false // a short page is the last
+		}
+		p.lo += p.page
+	}
+	return false
+}
+
+func (p *pagedRows) Scan(dest ...any) error { return p.rows.Scan(dest...) }
+
+func (p *pagedRows) Err() error { return p.err }
 
 func p2fetch(p *plan, x string, t fixtures.Type) string { return p.fetch(x, t) }
 
@@ -360,7 +459,7 @@ func pos(row []any) int {
 func (a *across) merge(ctx context.Context) error {
 	byKey := a.set.Match == assert.MatchByKey
 	for _, s := range []*stream{a.w, a.g} {
-		if err := s.start(ctx); err != nil {
+		if err := s.start(ctx, a.page); err != nil {
 			return err
 		}
 		defer s.close()

@@ -7,7 +7,8 @@ import (
 )
 
 // CompareAcrossChunked is CompareAcross comparing chunk pairs at a time,
-// so that tests cross many chunk boundaries with small tables.
+// and reading a DuckDB side chunk rows at a time, so that tests cross many
+// chunk and page boundaries with small tables.
 func CompareAcrossChunked(ctx context.Context, want, got Source, chunk int, opts ...assert.Option) (*assert.Diff, error) {
-	return compareAcross(ctx, want, got, chunk, opts)
+	return compareAcross(ctx, want, got, chunk, chunk, opts)
 }
