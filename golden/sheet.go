@@ -305,7 +305,7 @@ func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 		return nil, info, err
 	}
 	if tb.NumRows() != info.Rows {
-		return nil, info, fmt.Errorf("%s: the file says rows: %d but has %d rows (cut short, a lost merge, or a hand edit that did not fix the count)", name, info.Rows, tb.NumRows())
+		return nil, info, fmt.Errorf("%s: the file says rows: %d but has %s (cut short, a lost merge, or a hand edit that did not fix the count)", name, info.Rows, plural(tb.NumRows(), "row", "rows"))
 	}
 	return tb, info, nil
 }

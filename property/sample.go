@@ -421,7 +421,7 @@ func (s *Sample) String() string {
 	if len(s.rows) <= 20 && len(s.cols) <= 12 {
 		return "\n" + s.Raw().LiteralWith(fixtures.LiteralStyle{Pad: true, Indent: "\t"})
 	}
-	return fmt.Sprintf("sample of %d rows × %d columns (seed %d)", len(s.rows), len(s.cols), s.Seed)
+	return fmt.Sprintf("sample of %s × %s (seed %d)", plural(len(s.rows), "row"), plural(len(s.cols), "column"), s.Seed)
 }
 
 // derive returns a sample sharing s's schema, records and columns, with
