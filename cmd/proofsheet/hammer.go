@@ -576,7 +576,8 @@ func (h *hammerRun) programTrouble(ctx context.Context, first int, base *runResu
 // greedily: it takes the first candidate (in File.Smaller's order: rows,
 // style, columns, cells) that still fails and starts again from it. Up to
 // --jobs candidates are tried at once; the first failing one in order
-// wins, so the result does not depend on --jobs.
+// wins, and the budget (--max-shrinks) counts candidates in that order, so
+// the result does not depend on --jobs.
 func (h *hammerRun) shrink(ctx context.Context, s *sample, failing *verdict) (*sample, *verdict, int, int) {
 	chk, class := failing.check, failing.class
 	try := func(c *sample) *verdict {
@@ -613,10 +614,15 @@ func (h *hammerRun) shrink(ctx context.Context, s *sample, failing *verdict) (*s
 				}()
 			}
 			wg.Wait()
+			// Candidates count in order up to the first that fails, as
+			// a one-at-a-time search would count them: those after it
+			// in the batch were run ahead of need. So --max-shrinks
+			// stops at the same candidate whatever --jobs is.
 			tried += len(batch)
 			for i, v := range vs {
 				if v != nil {
 					cur, curV, found = batch[i], v, true
+					tried -= len(batch) - 1 - i
 					break
 				}
 			}

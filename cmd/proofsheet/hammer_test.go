@@ -57,6 +57,8 @@ type hammerReport struct {
 		Sample     int    `json:"sample"`
 		RowsBefore int    `json:"rows_before"`
 		RowsAfter  int    `json:"rows_after"`
+		Steps      int    `json:"shrink_steps"`
+		Tried      int    `json:"shrink_tried"`
 		Input      []struct {
 			Name  string `json:"name"`
 			Kept  string `json:"kept"`
@@ -138,11 +140,11 @@ func TestHammerAwkChain(t *testing.T) {
 
 	checks := []string{"--check", "runs", "--check", "order-free", "--check", "same-on-plain", "--check", "no-nulls=house,day",
 		"--check", "unique=house,day", "--check", "repeatable", "--check", "balance=sum(kept) + sum(dropped) = in.rows(house, logged_at)"}
-	rep, r = runHammerJSON(t, dir, append(append([]string{"--run", "sh daily.sh {in} {out}", "--samples", "20"}, checks...), common...)...)
+	rep, r = runHammerJSON(t, dir, append(append([]string{"--run", "sh daily.sh {in} {out}", "--samples", "10"}, checks...), common...)...)
 	require.Equal(t, exitSame, r.code, "%s\n%s", r.stdout, r.stderr)
 	require.Len(t, rep.Checks, 7)
 	for _, c := range rep.Checks {
-		require.Equal(t, "held on 20 samples", c.Result, c.Check)
+		require.Equal(t, "held on 10 samples", c.Result, c.Check)
 	}
 
 	// The fixed chains agree with each other; the buggy one does not.
@@ -203,6 +205,25 @@ func TestHammerReproducible(t *testing.T) {
 	require.Len(t, a, 15)
 	require.Equal(t, a, inputs("42", "3"))
 	require.NotEqual(t, a, inputs("43", "2"))
+
+	// Shrinking tries candidates --jobs at a time but takes the first
+	// failing one in order, and its budget counts candidates in that
+	// order: the result is the one a plain sequential greedy search
+	// (--jobs 1) finds, byte for byte, also when the budget runs out
+	// half-way.
+	shrunk := func(jobs string) hammerReport {
+		rep, r := runHammerJSON(t, dir, "--schema", "uploads.schema", "--run", "sh daily_bug.sh {in} {out}", "--key", "house,day",
+			"--check", "same-on-plain", "--samples", "20", "--rows", "25", "--seed", "8", "--max-shrinks", "14", "--jobs", jobs)
+		require.Equal(t, exitDiffers, r.code, r.stderr)
+		return rep
+	}
+	one, three := shrunk("1"), shrunk("3")
+	require.Equal(t, 14, one.Failure.Tried)
+	require.Less(t, one.Failure.RowsAfter, one.Failure.RowsBefore, "the budget allowed some steps")
+	require.Equal(t, one.Failure.Sample, three.Failure.Sample)
+	require.Equal(t, one.Failure.Input[0].Bytes, three.Failure.Input[0].Bytes)
+	require.Equal(t, one.Failure.Steps, three.Failure.Steps)
+	require.Equal(t, one.Failure.Tried, three.Failure.Tried)
 }
 
 // alive reports whether a process exists.
