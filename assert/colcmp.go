@@ -70,6 +70,12 @@ func newColCmp(cfg *config, wc, gc *fixtures.Column) *colCmp {
 			cc.class = classDate
 		case fixtures.KindTimestamp:
 			cc.class = classTime
+		case fixtures.KindTime, fixtures.KindDuration:
+			// Ticks of one unit compare exactly as integers; other units
+			// are a type change and their cells are not compared.
+			if wc.Type() == gc.Type() {
+				cc.class = classInt
+			}
 		}
 	case wk.IsText() && gk.IsText():
 		cc.class = classText

@@ -101,6 +101,8 @@ func (cc *colCmp) hashCells(col *fixtures.Column, from int, out []uint64, seed m
 			v = floatHash(col.Float64(r))
 		case fixtures.KindDate:
 			v = uint64(col.Days(r))
+		case fixtures.KindTime, fixtures.KindDuration:
+			v = uint64(col.Ticks(r))
 		case fixtures.KindTimestamp:
 			if cc.wc.Type().Unit() == cc.gc.Type().Unit() {
 				v = uint64(col.Ticks(r))
@@ -1127,6 +1129,8 @@ func sortKeys(col *fixtures.Column, rows []int32) map[int32]float64 {
 		case col.Kind() == fixtures.KindTimestamp:
 			t := col.Time(i)
 			v = float64(t.Unix()) + float64(t.Nanosecond())/1e9
+		case col.Kind() == fixtures.KindTime, col.Kind() == fixtures.KindDuration:
+			v = float64(col.Ticks(i))
 		}
 		out[r] = v
 	}

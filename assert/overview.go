@@ -135,7 +135,9 @@ func (c *comparison) overview() {
 		if j >= len(c.results) || cc.skip {
 			continue
 		}
-		if r := c.results[j]; r.differing > 0 && (cc.class == classFloat || cc.class == classIntFloat || cc.class == classInt || cc.class == classDecimal) {
+		number := cc.class == classFloat || cc.class == classIntFloat || cc.class == classDecimal ||
+			cc.class == classInt && cc.wc.Kind() == fixtures.KindInt64 // not times of day or durations
+		if r := c.results[j]; r.differing > 0 && number {
 			d.Overview.Numbers = append(d.Overview.Numbers, c.numberShape(cc, r))
 		}
 	}
@@ -286,6 +288,8 @@ func (c *comparison) keyCompare(as Side, ai int, bs Side, bi int) int {
 			r = cmp.Compare(a.Days(ai), b.Days(bi))
 		case fixtures.KindTimestamp:
 			r = a.Time(ai).Compare(b.Time(bi))
+		case fixtures.KindTime, fixtures.KindDuration:
+			r = cmp.Compare(a.Ticks(ai), b.Ticks(bi))
 		case fixtures.KindDecimal:
 			r = a.Decimal(ai).Cmp(b.Decimal(bi))
 		default:
