@@ -195,23 +195,23 @@ func BenchmarkNoiseVsArrow(b *testing.B) {
 	wr, gr := ts["want"].Record(), ts["noisy"].Record()
 	defer wr.Release()
 	defer gr.Release()
-	var tOurs, tArrow, tPlain time.Duration
+	var tOurs, tArrow, tPlain, cOurs, cArrow, cPlain time.Duration
 	for b.Loop() {
-		tOurs += elapsed(compareFn(b, ts["want"], ts["noisy"], true, noiseTol...))
-		tArrow += elapsed(func() {
+		timed(&tOurs, &cOurs, compareFn(b, ts["want"], ts["noisy"], true, noiseTol...))
+		timed(&tArrow, &cArrow, func() {
 			if !arrowApprox(wr, gr) {
 				b.Fatal("Arrow: tables within tolerance differ")
 			}
 		})
-		tPlain += elapsed(func() {
+		timed(&tPlain, &cPlain, func() {
 			if plainLoop(ts["want"], ts["noisy"], 1e-9, 0) != 0 {
 				b.Fatal("plain loop: tables within tolerance differ")
 			}
 		})
 	}
-	reportMS(b, "ours", tOurs)
-	reportMS(b, "arrow", tArrow)
-	reportMS(b, "plain-loop", tPlain)
+	reportMS(b, "ours", tOurs, cOurs)
+	reportMS(b, "arrow", tArrow, cArrow)
+	reportMS(b, "plain-loop", tPlain, cPlain)
 	b.ReportMetric(float64(tArrow)/float64(tOurs), "x-vs-arrow")
 	b.ReportMetric(float64(tOurs)/float64(tPlain), "x-of-plain-loop")
 }
@@ -223,23 +223,23 @@ func BenchmarkNoiseWithNulls(b *testing.B) {
 	wr, gr := ts["nulls"].Record(), ts["nulls-noisy"].Record()
 	defer wr.Release()
 	defer gr.Release()
-	var tOurs, tArrow, tPlain time.Duration
+	var tOurs, tArrow, tPlain, cOurs, cArrow, cPlain time.Duration
 	for b.Loop() {
-		tOurs += elapsed(compareFn(b, ts["nulls"], ts["nulls-noisy"], true, noiseTol...))
-		tArrow += elapsed(func() {
+		timed(&tOurs, &cOurs, compareFn(b, ts["nulls"], ts["nulls-noisy"], true, noiseTol...))
+		timed(&tArrow, &cArrow, func() {
 			if !arrowApprox(wr, gr) {
 				b.Fatal("Arrow: tables within tolerance differ")
 			}
 		})
-		tPlain += elapsed(func() {
+		timed(&tPlain, &cPlain, func() {
 			if plainLoop(ts["nulls"], ts["nulls-noisy"], 1e-9, 0) != 0 {
 				b.Fatal("plain loop: tables within tolerance differ")
 			}
 		})
 	}
-	reportMS(b, "ours", tOurs)
-	reportMS(b, "arrow", tArrow)
-	reportMS(b, "plain-loop", tPlain)
+	reportMS(b, "ours", tOurs, cOurs)
+	reportMS(b, "arrow", tArrow, cArrow)
+	reportMS(b, "plain-loop", tPlain, cPlain)
 	b.ReportMetric(float64(tArrow)/float64(tOurs), "x-vs-arrow")
 	b.ReportMetric(float64(tOurs)/float64(tPlain), "x-of-plain-loop")
 }
@@ -359,13 +359,13 @@ func BenchmarkNoiseListing(b *testing.B) {
 	}
 	want, got := w.table(), g.table()
 	opts := append([]Option{ListLimit(-1)}, noiseTol...)
-	var tCollect, tText time.Duration
+	var tCollect, tText, cCollect, cText time.Duration
 	var cells int
 	for b.Loop() {
 		var d *Diff
-		tCollect += elapsed(func() { d = Compare(want, got, opts...) })
+		timed(&tCollect, &cCollect, func() { d = Compare(want, got, opts...) })
 		cells = d.Cells.Len()
-		tText += elapsed(func() {
+		timed(&tText, &cText, func() {
 			if err := d.WriteText(discard{}, TextStyle{}); err != nil {
 				b.Fatal(err)
 			}
@@ -374,8 +374,11 @@ func BenchmarkNoiseListing(b *testing.B) {
 	if cells != 3*n/2 {
 		b.Fatalf("listed %d cells, want %d", cells, 3*n/2)
 	}
-	b.ReportMetric(float64(tCollect.Nanoseconds())/float64(b.N)/float64(cells), "ns-per-cell-collect")
-	b.ReportMetric(float64(tText.Nanoseconds())/float64(b.N)/float64(cells), "ns-per-cell-text")
+	per := func(d time.Duration) float64 { return float64(d.Nanoseconds()) / float64(b.N) / float64(cells) }
+	b.ReportMetric(per(tCollect), "ns-per-cell-collect")
+	b.ReportMetric(per(tText), "ns-per-cell-text")
+	b.ReportMetric(per(cCollect), "cpu-ns-per-cell-collect")
+	b.ReportMetric(per(cText), "cpu-ns-per-cell-text")
 }
 
 // discard is io.Discard without its ReadFrom, so that writes are counted
@@ -384,6 +387,8 @@ type discard struct{}
 
 func (discard) Write(p []byte) (int, error) { return len(p), nil }
 
-func reportMS(b *testing.B, name string, d time.Duration) {
-	b.ReportMetric(float64(d.Nanoseconds())/float64(b.N)/1e6, "ms-"+name)
+// reportMS reports the mean wall-clock and CPU milliseconds of a side.
+func reportMS(b *testing.B, name string, wall, cpu time.Duration) {
+	b.ReportMetric(float64(wall.Nanoseconds())/float64(b.N)/1e6, "ms-"+name)
+	b.ReportMetric(float64(cpu.Nanoseconds())/float64(b.N)/1e6, "cpu-ms-"+name)
 }

@@ -34,35 +34,17 @@ import (
 // x-of-equal   compare with 1 % of cells differing / equal tables (≤ 2)
 // alloc-%      heap allocated by one compare / the tables' buffer bytes (≤ 25)
 //
-// Measured on the 2-core machine with no other helper running (its
-// timings still drift by up to 1.5× between runs minutes apart),
-// go test ./assert -run '^$' -bench . -benchtime 5x -count 3:
+// Each benchmark also reports the CPU milliseconds of each side
+// (cpu-ms-…). The figures measured, with the command and how busy the
+// machine was, are in README.md's performance section; the benchmarks of
+// float noise, nulls, repeated keys and long listings are in
+// bench_noise_test.go.
 //
-//	positional, equal tables      5.3–7.4 ms; Arrow 91–105 ms: 14.3–15.2×
-//	memcmp on one goroutine       7.0–8.3 ms: ours 1.20–1.32× faster
-//	memcmp on both cores          4.3–5.4 ms: ours within 2–16 % of it
-//	testify                       ours 5.3–7.1 ms vs 423–487 ms: 61–92×
-//	keyed, shuffled (dense ids)   48–54 ms: 8.0–10.2× the positional time
-//	keyed, shuffled, spread ids   62–73 ms: 10.1–15.1×
-//	1 % of cells differing        1.50–1.68× the equal case
-//	heap per compare              positional 0.016 %, 1 % differing 1.6 %,
-//	                              keyed 19.5 % (spread ids 21.4 %) of the
-//	                              138 MB of buffers
-//
-// Minutes before, the same command on the code before the dense-key join
-// and the bulk null, bool and reorder changes gave keyed 71–87 ms
-// (13.1–15.3×) and heap 21.6 %.
-//
-// The positional compare runs at the speed of bytes.Equal over all
-// buffers on both cores: it reads each of the 138 MB once, and this
-// machine's two cores read about 26–32 GB/s, so the equal-tables compare
-// cannot take much under 4.5 ms; the testify ratio is capped near
-// testify's time / 4.5 ms, 95–105× here, and 100× is out of reach in
-// practice. The keyed compare spends about a quarter of its time joining
-// and pairing (dense ids: bitmap ranks; spread ids: partitioned hash
-// tables, about three times slower) and the rest moving got's cells into
-// want's order range by range, which reads got's columns once per range;
-// the string column alone takes a third.
+// The positional compare of equal tables runs at the speed of bytes.Equal
+// over all buffers on both cores: it reads each of the 138 MB once, and
+// this machine's two cores read about 26–32 GB/s, so it cannot take much
+// under 4.5 ms, and the testify ratio is capped near testify's time /
+// 4.5 ms.
 
 const benchRows = 1 << 20
 
@@ -179,16 +161,30 @@ func elapsed(f func()) time.Duration {
 }
 
 // race runs base and other alternately b.N times and reports the mean
-// milliseconds of each and the ratio other/base under the unit ratio.
+// milliseconds of each and the ratio other/base under the unit ratio,
+// in wall-clock time; it also reports each side's CPU milliseconds
+// (cpu-ms-…), which a busy machine distorts less.
 func race(b *testing.B, baseName string, base func(), otherName string, other func(), ratio string) {
-	var tb, to time.Duration
+	var tb, to, cb, co time.Duration
 	for b.Loop() {
+		c0 := cpuTime()
 		tb += elapsed(base)
+		c1 := cpuTime()
 		to += elapsed(other)
+		cb, co = cb+c1-c0, co+cpuTime()-c1
 	}
 	b.ReportMetric(float64(tb.Nanoseconds())/float64(b.N)/1e6, "ms-"+baseName)
 	b.ReportMetric(float64(to.Nanoseconds())/float64(b.N)/1e6, "ms-"+otherName)
+	b.ReportMetric(float64(cb.Nanoseconds())/float64(b.N)/1e6, "cpu-ms-"+baseName)
+	b.ReportMetric(float64(co.Nanoseconds())/float64(b.N)/1e6, "cpu-ms-"+otherName)
 	b.ReportMetric(float64(to)/float64(tb), ratio)
+}
+
+// timed runs f and adds its wall-clock and CPU time to *wall and *cpu.
+func timed(wall, cpu *time.Duration, f func()) {
+	c0 := cpuTime()
+	*wall += elapsed(f)
+	*cpu += cpuTime() - c0
 }
 
 // compareFn returns a run of Compare that fails the benchmark unless the

@@ -93,12 +93,27 @@ func (cc *colCmp) floatRun(a, b []float64, l lineup, r *colResult) {
 			}
 			bad[i] = out&both[i] | oneNull[i]
 		}
-		// Cells that may differ, in slot order, through the exact rule.
+		// Cells that may differ through the exact rule: a pair of
+		// values directly, a null against a value (or NaN that counts as
+		// null) through colCmp.
 		for c := lo; c < hi; c += 64 {
-			for w := bad[(c-lo)/64]; w != 0; w &= w - 1 {
-				k := c + bits.TrailingZeros64(w)
-				wi, gi := l.p.at(k)
-				cc.slowCell(wi, gi, l.p.base+k, r)
+			i := (c - lo) / 64
+			for w := bad[i]; w != 0; w &= w - 1 {
+				t := bits.TrailingZeros64(w)
+				k := c + t
+				if oneNull[i]&(1<<uint(t)) != 0 || cc.nanNul {
+					wi, gi := l.p.at(k)
+					cc.slowCell(wi, gi, l.p.base+k, r)
+					continue
+				}
+				x, y := a[k], b[k]
+				eq := floatEqual(x, y, rule)
+				if !eq {
+					r.hit(l.p.base + k)
+				}
+				if !eq || tolerant {
+					r.track(cc.withULPs(floatDelta(x, y), x, y), l.p.base+k)
+				}
 			}
 		}
 		// A block that may hold a new largest distance: the cells that
