@@ -3,10 +3,15 @@ package main
 import (
 	"fmt"
 	"io"
+	"math/rand/v2"
+	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/stretchr/testify/require"
 
 	"github.com/proofsheet/proofsheet/fixtures"
 )
@@ -132,4 +137,68 @@ func BenchmarkChanges50(b *testing.B) {
 	}
 	b.ReportMetric(total.Seconds()/float64(b.N), "s/summary")
 	b.ReportMetric(total.Seconds()/float64(b.N)/2, "x-vs-2s")
+}
+
+// TestWriteMemoryBenchFiles writes the Parquet files README.md's memory
+// figures of proofsheet diff are measured on, into the directory named by
+// PROOFSHEET_MEMORY_FILES (the test does nothing without it):
+//
+//	big-want.parquet, big-got.parquet   2.2M rows × 8 columns, 134 MB
+//	                                    decoded each, one cell apart
+//	want.parquet, shuffled.parquet      1M rows × 5 columns, 45 MB decoded
+//	                                    each, the same rows in another
+//	                                    order (every cell differs by
+//	                                    position)
+//
+// then, for example:
+//
+//	/usr/bin/time -v proofsheet diff --quiet DIR/big-want.parquet DIR/big-got.parquet
+//	/usr/bin/time -v proofsheet diff --quiet --max-cells -1 --format json --out /tmp/d.json DIR/want.parquet DIR/shuffled.parquet
+func TestWriteMemoryBenchFiles(t *testing.T) {
+	dir := os.Getenv("PROOFSHEET_MEMORY_FILES")
+	if dir == "" {
+		t.Skip("set PROOFSHEET_MEMORY_FILES=DIR to write the files")
+	}
+	houses := []string{"Étang", "Les Pins", "Mühlbach", "Søndergård", "Quinta do Açude"}
+	status := []string{"ok", "fault", "calibrating"}
+	big := func(changed bool) *fixtures.Table {
+		b := fixtures.NewBuilder(fixtures.Schema{
+			fixtures.Col("id", fixtures.Int64), fixtures.Col("house", fixtures.String), fixtures.Col("day", fixtures.Date),
+			fixtures.Col("tmin", fixtures.Float64), fixtures.Col("tmax", fixtures.Float64), fixtures.Col("tmean", fixtures.Float64),
+			fixtures.Col("kept", fixtures.Int64), fixtures.Col("status", fixtures.Category),
+		})
+		rng := rand.New(rand.NewPCG(1, 2))
+		n := 2_200_000
+		for i := range n {
+			tmax := 10 + float64(i%977)/8
+			if changed && i == n/2 {
+				tmax += 0.25
+			}
+			day := fmt.Sprintf("2026-%02d-%02d", 1+i%12, 1+i%28)
+			b.Row(int64(i), houses[i%len(houses)]+strconv.Itoa(i%100), day, tmax-5, tmax, tmax-2.5+float64(rng.IntN(4))/4, int64(100+i%50), status[i%3])
+		}
+		return b.MustBuild(t)
+	}
+	perm := rand.New(rand.NewPCG(3, 4)).Perm(1_000_000)
+	small := func(order func(int) int) *fixtures.Table {
+		b := fixtures.NewBuilder(fixtures.Schema{
+			fixtures.Col("id", fixtures.Int64), fixtures.Col("house", fixtures.String), fixtures.Col("day", fixtures.Date),
+			fixtures.Col("tmax", fixtures.Float64), fixtures.Col("kept", fixtures.Int64),
+		})
+		for k := range 1_000_000 {
+			i := order(k)
+			day := fmt.Sprintf("2026-%02d-%02d", 1+i%12, 1+i%28)
+			b.Row(int64(i), houses[i%len(houses)]+strconv.Itoa(i%1000), day, 10+float64(i%977)/8+float64(i%7)/64, int64(100+i%50))
+		}
+		return b.MustBuild(t)
+	}
+	for name, tb := range map[string]*fixtures.Table{
+		"big-want.parquet": big(false),
+		"big-got.parquet":  big(true),
+		"want.parquet":     small(func(k int) int { return k }),
+		"shuffled.parquet": small(func(k int) int { return perm[k] }),
+	} {
+		require.NoError(t, fixtures.WriteFile(filepath.Join(dir, name), tb))
+		t.Logf("%s: %d rows, %d bytes decoded", name, tb.NumRows(), tb.BufferBytes())
+	}
 }
