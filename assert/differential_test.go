@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -493,5 +494,61 @@ func TestSweptKeyedColumnsAgree(t *testing.T) {
 		swept := Compare(want, got, append(opts, sweepFrom(0))...)
 		require.Equal(t, summarize(read), summarize(swept))
 		require.Positive(t, read.CellsDiffering)
+	}
+}
+
+// TestRepeatedKeysAgreeWithReference holds the grouping of repeated keys
+// (chains built during the hash join, on several goroutines and in many
+// partitions) to the reference: keys repeated 1, 3, 10 and 1000 times,
+// got holding the groups shuffled, some rows dropped and some added, got
+// repeating keys want lacks; by key and as a multiset. 10 rows per key
+// unless PROOFSHEET_LONG_TESTS is set.
+func TestRepeatedKeysAgreeWithReference(t *testing.T) {
+	if testing.Short() {
+		t.Skip("large tables")
+	}
+	n := parallelCells + 5000 // the join runs on every processor
+	pers := []int{10}
+	if os.Getenv("PROOFSHEET_LONG_TESTS") != "" {
+		pers = []int{1, 3, 10, 1000}
+	}
+	for _, per := range pers {
+		rng := rand.New(rand.NewPCG(uint64(per), 61))
+		w := noiseWant(n, 1, 0, 0.02, uint64(per))
+		for i := range w.ids {
+			w.ids[i] = int64(i/per)*1_000_003 + 1<<40 // spread: the hash join
+		}
+		groups := rng.Perm((n + per - 1) / per)
+		var perm []int
+		for _, gr := range groups {
+			for i := gr * per; i < min((gr+1)*per, n); i++ {
+				if rng.IntN(50) != 0 { // about 2 % of want's rows missing
+					perm = append(perm, i)
+				}
+			}
+		}
+		g := w.noisy(0.01, perm, uint64(per)+1)
+		for range 300 { // rows want lacks, some of them repeated
+			id := int64(rng.IntN(n))*1_000_003 + 1<<41
+			for range 1 + rng.IntN(3) {
+				at := rng.IntN(len(g.ids) + 1)
+				g.ids = slices.Insert(g.ids, at, id)
+				g.valid = slices.Insert(g.valid, at, true)
+				for j := range g.floats {
+					g.floats[j] = slices.Insert(g.floats[j], at, float64(id%97))
+				}
+			}
+		}
+		want, got := w.table(), g.table()
+		d := Compare(want, got, ByKey("id"))
+		require.Equal(t, per > 1, d.Duplicates.WantKeys > 0, "want's repeated keys")
+		require.Positive(t, d.Duplicates.GotKeys, "got's repeated keys")
+		for _, opts := range [][]Option{
+			{ByKey("id"), Tol(AllColumns, 1e-9, 0), ListLimit(50)},
+			{ByKey("id"), ListLimit(-1)},
+			{AnyRowOrder(), ListLimit(100)},
+		} {
+			checkAgainstReference(t, want, got, opts, fmt.Sprintf("%d rows per key, options %d", per, len(opts)))
+		}
 	}
 }

@@ -73,8 +73,8 @@ func TestDenseJoinAgreesWithHashJoin(t *testing.T) {
 					require.NotNil(t, dense, "n=%d spread=%d ascending=%v", n, spread, ascending)
 					hashed := hashJoin(k, len(w), len(g), workers)
 					require.Equal(t, hashed.wantOf, dense.wantOf, "n=%d spread=%d ascending=%v workers=%d", n, spread, ascending, workers)
-					require.Equal(t, hashed.wantHead, dense.wantHead)
-					require.Equal(t, hashed.gotHead, dense.gotHead)
+					require.Equal(t, headsOf(hashed.wantLinks, len(w)), headsOf(dense.wantLinks, len(w)))
+					require.Equal(t, headsOf(hashed.gotLinks, len(g)), headsOf(dense.gotLinks, len(g)))
 				}
 			}
 		}
@@ -241,23 +241,34 @@ func TestHashJoinAnyPartitioning(t *testing.T) {
 	}
 	k := intKeys(t, w, g)
 	base := hashJoinBits(k, len(w), len(g), 1, 0)
-	require.NotNil(t, base.wantHead, "want repeats keys")
-	require.NotNil(t, base.gotHead, "got repeats keys")
+	require.NotNil(t, base.wantLinks, "want repeats keys")
+	require.NotNil(t, base.gotLinks, "got repeats keys")
 	for _, bitsP := range []uint{1, 5, radixBits + 2} {
 		for _, workers := range []int{1, 2} {
 			jn := hashJoinBits(k, len(w), len(g), workers, bitsP)
 			require.Equal(t, base.wantOf, jn.wantOf, "bits %d", bitsP)
-			require.Equal(t, base.wantHead, jn.wantHead)
-			require.Equal(t, base.gotHead, jn.gotHead)
+			require.Equal(t, base.wantLinks, jn.wantLinks)
+			require.Equal(t, base.gotLinks, jn.gotLinks)
 		}
 	}
-	// The heads are the first rows with each key.
+	// The heads are the first rows with each key, and each chain holds
+	// every row of its key in row order.
 	first := map[int64]int32{}
+	wantHead := headsOf(base.wantLinks, len(w))
 	for i, v := range w {
 		if _, ok := first[v]; !ok {
 			first[v] = int32(i)
 		}
-		require.Equal(t, first[v], base.wantHead[i])
+		require.Equal(t, first[v], wantHead[i])
+	}
+	for h, v := range first {
+		var rows []int32
+		for i, x := range w {
+			if x == h {
+				rows = append(rows, int32(i))
+			}
+		}
+		require.Equal(t, rows, base.wantLinks.members(v, nil), "key %d", h)
 	}
 	for j, v := range g {
 		f, ok := first[v]
@@ -266,4 +277,24 @@ func TestHashJoinAnyPartitioning(t *testing.T) {
 		}
 		require.Equal(t, f, base.wantOf[j])
 	}
+}
+
+// headsOf returns the head of each of n rows from chains (nil: every row
+// is its own head), for tests that compare groupings.
+func headsOf(c *chains, n int) []int32 {
+	out := make([]int32, n)
+	for i := range out {
+		out[i] = int32(i)
+	}
+	if c == nil {
+		return out
+	}
+	for h, l := range c.last {
+		if l != int32(h) {
+			for r := int32(h); r >= 0; r = c.next[r] {
+				out[r] = int32(h)
+			}
+		}
+	}
+	return out
 }

@@ -369,27 +369,92 @@ type joined struct {
 	// wantOf[j] is, for got row j, the head of the want rows with the same
 	// cells, or -1 when want has no such row.
 	wantOf []int32
-	// wantHead[i] is the head of want row i; nil when no cells repeat on
-	// want's side (every row is its own head). gotHead likewise for got.
-	wantHead, gotHead []int32
+	// wantLinks chains want's rows that share cells; nil when no cells
+	// repeat on want's side (every row is its own head). gotLinks likewise
+	// for got.
+	wantLinks, gotLinks *chains
 	// spare is the join's memory, free once the join is done.
 	spare spares
 }
 
-// heads turns a list of (row, head) pairs of the rows that are not heads
-// into the head of every one of n rows, nil when the list is empty.
-func heads(n int, dups []int32) []int32 {
+// chains links the rows of one side that share matching cells, in row
+// order, without a list per group: next[r] is the row after r with r's
+// cells (-1 after the last), and last[h] is the last row of the group
+// whose head is h; last[r] == r for every row that is not the head of a
+// group of two or more. The two arrays are all a grouping costs: 8 bytes
+// a row, written once, where a list per group grows by copying.
+type chains struct {
+	next, last []int32
+}
+
+// newChains returns the chains of n rows that all stand alone.
+func newChains(n int) *chains {
+	c := &chains{next: make([]int32, n), last: make([]int32, n)}
+	for i := range c.next {
+		c.next[i], c.last[i] = -1, int32(i)
+	}
+	return c
+}
+
+// link appends row r to the group of head h; r must come after every row
+// already linked to h.
+func (c *chains) link(h, r int32) {
+	c.next[c.last[h]] = r
+	c.last[h] = r
+}
+
+// linker is chains made on the first link, so that a side without
+// repeated cells costs nothing. Goroutines may link at once as long as
+// each group is linked by one of them.
+type linker struct {
+	once  sync.Once
+	n     int
+	links *chains
+}
+
+func (l *linker) link(h, r int32) {
+	l.once.Do(func() { l.links = newChains(l.n) })
+	l.links.link(h, r)
+}
+
+// chainsOf turns (row, head) pairs, in row order within each group, into
+// the chains of n rows, nil when there are none.
+func chainsOf(n int, dups []int32) *chains {
 	if len(dups) == 0 {
 		return nil
 	}
-	out := make([]int32, n)
-	for i := range out {
-		out[i] = int32(i)
-	}
+	c := newChains(n)
 	for t := 0; t < len(dups); t += 2 {
-		out[dups[t]] = dups[t+1]
+		c.link(dups[t+1], dups[t])
 	}
-	return out
+	return c
+}
+
+// repeated calls f with the rows of each group of two or more rows, in
+// the order of their heads, each group in row order. The slice is reused
+// between calls.
+func (c *chains) repeated(f func(rows []int32)) {
+	if c == nil {
+		return
+	}
+	var buf []int32
+	for h, l := range c.last {
+		if l != int32(h) {
+			buf = c.members(int32(h), buf[:0])
+			f(buf)
+		}
+	}
+}
+
+// members appends the rows of the group of head h to buf.
+func (c *chains) members(h int32, buf []int32) []int32 {
+	if c == nil {
+		return append(buf, h)
+	}
+	for r := h; r >= 0; r = c.next[r] {
+		buf = append(buf, r)
+	}
+	return buf
 }
 
 // joinRows groups the rows of both sides by their matching cells: a dense
@@ -425,13 +490,14 @@ func hashJoinBits(k *rowKeys, nw, ng, workers int, bitsP uint) *joined {
 		g = partition(k, GotSide, ng, bitsP)
 	}
 	out := &joined{wantOf: make([]int32, ng)}
+	wantLinks, gotLinks := &linker{n: nw}, &linker{n: ng}
 	np := len(w.start) - 1
 	workers = min(workers, np)
 	parts := make([]*partitionJoin, workers)
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for t := range workers {
-		pj := &partitionJoin{}
+		pj := &partitionJoin{wantLinks: wantLinks, gotLinks: gotLinks}
 		parts[t] = pj
 		wg.Add(1)
 		go func() {
@@ -447,12 +513,7 @@ func hashJoinBits(k *rowKeys, nw, ng, workers int, bitsP uint) *joined {
 	}
 	wg.Wait()
 	out.spare = spares{rows: g.row, words: w.h, buffers: g.h}
-	var wantDup, gotDup []int32
-	for _, pj := range parts {
-		wantDup = append(wantDup, pj.wantDup...)
-		gotDup = append(gotDup, pj.gotDup...)
-	}
-	out.wantHead, out.gotHead = heads(nw, wantDup), heads(ng, gotDup)
+	out.wantLinks, out.gotLinks = wantLinks.links, gotLinks.links
 	return out
 }
 
@@ -465,13 +526,14 @@ func workersFor(n int) int {
 	return 1
 }
 
-// partitionJoin holds what one goroutine keeps across partitions: its
-// buffers, and the rows it found not to be heads, as (row, head) pairs.
+// partitionJoin holds what one goroutine keeps across partitions (its
+// buffers) and the chains it links the rows that are not heads into. A
+// group's rows all lie in one partition, so goroutines never link the
+// same group.
 type partitionJoin struct {
-	slots    []int32 // want entries as e-wa ≥ 0, got entries as -(e-ga)-2; empty -1
-	firstGot []int32 // per want entry of the partition: its first got row, or -1
-	wantDup  []int32
-	gotDup   []int32
+	slots               []int32 // want entries as e-wa ≥ 0, got entries as -(e-ga)-2; empty -1
+	firstGot            []int32 // per want entry of the partition: its first got row, or -1
+	wantLinks, gotLinks *linker
 }
 
 // run joins partition p: wantOf of every got row of the partition, and
@@ -507,7 +569,7 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, wantOf []int3
 				break
 			}
 			if x >= 0 && w.h[wa+int(x)] == h && k.same(WantSide, int(w.row[wa+int(x)]), WantSide, int(row)) {
-				pj.wantDup = append(pj.wantDup, row, w.row[wa+int(x)])
+				pj.wantLinks.link(w.row[wa+int(x)], row)
 				break
 			}
 		}
@@ -528,7 +590,7 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, wantOf []int3
 					if f := firstGot[x]; f < 0 {
 						firstGot[x] = row
 					} else {
-						pj.gotDup = append(pj.gotDup, row, f)
+						pj.gotLinks.link(f, row)
 					}
 					break
 				}
@@ -536,7 +598,7 @@ func (pj *partitionJoin) run(k *rowKeys, w, g *partitioned, p int, wantOf []int3
 			}
 			ge := ga + int(-x-2)
 			if g.h[ge] == h && k.same(GotSide, int(g.row[ge]), GotSide, int(row)) {
-				pj.gotDup = append(pj.gotDup, row, g.row[ge])
+				pj.gotLinks.link(g.row[ge], row)
 				wantOf[row] = -1
 				break
 			}
@@ -688,7 +750,7 @@ func denseJoin(k *rowKeys, workers int) *joined {
 		}
 	}
 	gotDup = append(gotDup, repeatedPartners(out.wantOf, len(w))...)
-	out.gotHead = heads(len(g), gotDup)
+	out.gotLinks = chainsOf(len(g), gotDup)
 	return out
 }
 
@@ -746,88 +808,12 @@ func (s denseSet) rank(b uint64) int32 {
 	return int32(d.before) + int32(bits.OnesCount64(d.bits&(1<<(b&63)-1)))
 }
 
-// groups is a grouping of rows in compressed sparse row form: the rows
-// of the group whose head is row h are rows[start[h]:start[h]+size[h]], in
-// row order. A nil head means every row is a group of its own.
-type groups struct {
-	head  []int32
-	start []int32
-	size  []int32
-	rows  []int32
-}
-
-// newGroups groups rows 0…len(head)-1 by their heads (head[h] == h for a
-// head row), by counting and prefix sums.
-func newGroups(head []int32) *groups {
-	g := &groups{head: head}
-	if head == nil {
-		return g
-	}
-	n := len(head)
-	g.size = make([]int32, n)
-	for _, h := range head {
-		g.size[h]++
-	}
-	g.start = make([]int32, n)
-	at := int32(0)
-	for i, h := range head {
-		if h == int32(i) {
-			g.start[i] = at
-			at += g.size[i]
-		}
-	}
-	g.rows = make([]int32, n)
-	fill := make([]int32, n)
-	for i, h := range head {
-		g.rows[g.start[h]+fill[h]] = int32(i)
-		fill[h]++
-	}
-	return g
-}
-
-// count returns how many rows the group of head h has.
-func (g *groups) count(h int32) int32 {
-	if g.head == nil {
-		return 1
-	}
-	return g.size[h]
-}
-
-// member returns row t of the group of head h.
-func (g *groups) member(h, t int32) int32 {
-	if g.head == nil {
-		return h
-	}
-	return g.rows[g.start[h]+t]
-}
-
-// members returns the rows of the group of head h.
-func (g *groups) members(h int32) []int32 {
-	if g.head == nil {
-		return []int32{h}
-	}
-	return g.rows[g.start[h] : g.start[h]+g.size[h]]
-}
-
-// repeated calls f with each group of more than one row, in the order of
-// their heads.
-func (g *groups) repeated(f func(rows []int32)) {
-	if g.head == nil {
-		return
-	}
-	for i, h := range g.head {
-		if h == int32(i) && g.size[i] > 1 {
-			f(g.members(h))
-		}
-	}
-}
-
 // pairInOrder pairs the rows of each group in order of appearance: the
 // t-th got row whose cells want has with the t-th want row with those
-// cells. It returns each want row's partner (-1 for none) and the groups
-// of want's rows, and leaves in jn.wantOf each got row's partner (-1 for
-// none).
-func pairInOrder(jn *joined, nw int) (gOf []int32, wg *groups) {
+// cells. It returns each want row's partner (-1 for none) and leaves in
+// jn.wantOf each got row's partner (-1 for none). Want's chains serve as
+// the cursor of each group (their last rows are overwritten; next stays).
+func pairInOrder(jn *joined, nw int) (gOf []int32) {
 	gOf = jn.spare.rows
 	if len(gOf) < nw {
 		gOf = make([]int32, nw)
@@ -836,30 +822,44 @@ func pairInOrder(jn *joined, nw int) (gOf []int32, wg *groups) {
 	for i := range gOf {
 		gOf[i] = -1
 	}
-	wg = newGroups(jn.wantHead)
-	if jn.wantHead == nil && jn.gotHead == nil {
+	switch {
+	case jn.wantLinks == nil && jn.gotLinks == nil:
 		for j, i := range jn.wantOf {
 			if i >= 0 {
 				gOf[i] = int32(j)
 			}
 		}
-		return gOf, wg
-	}
-	taken := make([]int32, nw) // got rows met so far, per want head
-	for j, h := range jn.wantOf {
-		if h < 0 {
-			continue
+	case jn.wantLinks == nil:
+		// Each want row is its own group: the first got row takes it.
+		for j, i := range jn.wantOf {
+			if i >= 0 {
+				if gOf[i] < 0 {
+					gOf[i] = int32(j)
+				} else {
+					jn.wantOf[j] = -1
+				}
+			}
 		}
-		t := taken[h]
-		taken[h]++
-		if t < wg.count(h) {
-			i := wg.member(h, t)
-			gOf[i], jn.wantOf[j] = int32(j), i
-		} else {
-			jn.wantOf[j] = -1
+	default:
+		// cur[h] is the next want row of head h's group to pair, -1 when
+		// all are paired.
+		next, cur := jn.wantLinks.next, jn.wantLinks.last
+		for i := range cur {
+			cur[i] = int32(i)
+		}
+		for j, h := range jn.wantOf {
+			if h < 0 {
+				continue
+			}
+			if i := cur[h]; i >= 0 {
+				gOf[i], jn.wantOf[j] = int32(j), i
+				cur[h] = next[i]
+			} else {
+				jn.wantOf[j] = -1
+			}
 		}
 	}
-	return gOf, wg
+	return gOf
 }
 
 // matchByKey pairs rows with equal keys, in order of appearance, and
@@ -868,8 +868,11 @@ func (c *comparison) matchByKey() {
 	nw, ng := c.want.NumRows(), c.got.NumRows()
 	k := newRowKeys(c.keyCols)
 	jn := joinRows(k, nw, ng)
-	gotHead := jn.gotHead
-	gOf, wg := pairInOrder(jn, nw)
+	// Repeated keys: want's in order of first appearance, then got's
+	// (before pairing, which reuses want's chains).
+	jn.wantLinks.repeated(func(rows []int32) { c.addDuplicate(WantSide, rows) })
+	jn.gotLinks.repeated(func(rows []int32) { c.addDuplicate(GotSide, rows) })
+	gOf := pairInOrder(jn, nw)
 	c.pairs = pairing{n: nw, g: gOf}
 	if workers := runtime.GOMAXPROCS(0); nw*len(c.cols) >= parallelCells && workers > 1 {
 		c.reorder = newReorder(jn.wantOf, nw, jn.spare, workers)
@@ -884,9 +887,6 @@ func (c *comparison) matchByKey() {
 			c.addExtra(j)
 		}
 	}
-	// Repeated keys: want's in order of first appearance, then got's.
-	wg.repeated(func(rows []int32) { c.addDuplicate(WantSide, rows) })
-	newGroups(gotHead).repeated(func(rows []int32) { c.addDuplicate(GotSide, rows) })
 }
 
 func (c *comparison) addDuplicate(side Side, rows []int32) {
@@ -931,12 +931,15 @@ func groupsBy(wantOf []int32, nw int) *byWant {
 		at += g.size[h]
 	}
 	g.rows = make([]int32, at)
-	fill := make([]int32, nw)
+	// start serves as each group's cursor, then is moved back.
 	for j, h := range wantOf {
 		if h >= 0 {
-			g.rows[g.start[h]+fill[h]] = int32(j)
-			fill[h]++
+			g.rows[g.start[h]] = int32(j)
+			g.start[h]++
 		}
+	}
+	for h, n := range g.size {
+		g.start[h] -= n
 	}
 	return g
 }
@@ -967,12 +970,11 @@ func (c *comparison) matchAsMultiset() {
 	jn := joinRows(k, nw, ng)
 	var gOf, gotOf []int32
 	if len(loose) == 0 {
-		gOf, _ = pairInOrder(jn, nw)
+		gOf = pairInOrder(jn, nw)
 		gotOf = jn.wantOf
 	} else {
 		// Each group: want's rows with some cells and got's rows with
 		// them (grouped by the head of want's rows).
-		wg := newGroups(jn.wantHead)
 		gg := groupsBy(jn.wantOf, nw)
 		gOf = make([]int32, nw)
 		for i := range gOf {
@@ -990,12 +992,14 @@ func (c *comparison) matchAsMultiset() {
 			}
 			return true
 		}
+		var ws []int32
 		for i := range nw {
 			h := int32(i)
-			if (wg.head != nil && wg.head[i] != h) || gg.size[i] == 0 {
-				continue
+			if gg.size[i] == 0 {
+				continue // not a head (got rows point at heads), or no got rows
 			}
-			pairGroup(wg.members(h), gg.rows[gg.start[i]:gg.start[i]+gg.size[i]], near, loose, gOf, gotOf)
+			ws = jn.wantLinks.members(h, ws[:0])
+			pairGroup(ws, gg.rows[gg.start[i]:gg.start[i]+gg.size[i]], near, loose, gOf, gotOf)
 		}
 	}
 	var pw, pg []int32

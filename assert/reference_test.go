@@ -382,7 +382,9 @@ func refCanon(col *fixtures.Column, row int, norm TextNorm, nanIsNull bool) stri
 			return "nan"
 		case x == 0:
 			return "n0"
-		case x == math.Trunc(x) && math.Abs(x) < 1<<63:
+		case x == math.Trunc(x) && !math.IsInf(x, 0):
+			// Every integral float spells its exact integer, as an int64
+			// does: −2⁶³ is MinInt64 (a bound on |x| missed it).
 			return "n" + new(big.Float).SetFloat64(x).Text('f', 0)
 		}
 		return "f" + new(big.Float).SetFloat64(x).Text('g', -1)
