@@ -37,8 +37,19 @@ func requireRendered(t *testing.T, d *Diff) {
 	back, err := DiffFromJSON(js)
 	require.NoError(t, err)
 	require.Equal(t, d.Hints, back.Hints, "hints survive JSON")
+	wide := d.TextWith(TextStyle{Width: 1000})
 	for i, h := range d.Hints {
 		require.Equal(t, string(h.Kind), parsed.Hints[i].Kind)
+		// The words requireNoHint looks for are there when the hint is.
+		found := false
+		for _, w := range hintWords[h.Kind] {
+			found = found || strings.Contains(h.Text, w)
+			if strings.Contains(h.Text, w) {
+				require.Contains(t, wide, w)
+				require.Contains(t, md, w)
+			}
+		}
+		require.True(t, found, "hintWords[%s] names no words of %q", h.Kind, h.Text)
 		first := strings.Fields(h.Text)[0]
 		require.Contains(t, text, first)
 		require.Contains(t, md, first)
@@ -51,6 +62,57 @@ func requireRendered(t *testing.T, d *Diff) {
 			require.Contains(t, flags, "fix: "+h.Flag)
 		}
 	}
+}
+
+// hintWords are words each kind of hint is written with in every
+// rendering, and in no other part of a report.
+var hintWords = map[HintKind][]string{
+	HintRowOrder:   {"the tables hold the same rows in another order"},
+	HintLooseTypes: {"with loose types"},
+	HintDidYouMean: {"did you mean"},
+	HintRenamed:    {"the same column renamed?"},
+	HintNearMatch:  {"have keys that differ only by", "⇄"},
+	HintScale:      {"is its want cell ×", "follows one conversion"},
+}
+
+// requireNoHint checks that d has no hint of the kind, in its fields and
+// in none of its renderings: text (with Go options and with flags),
+// Markdown, HTML and JSON.
+func requireNoHint(t *testing.T, d *Diff, kind HintKind, msgAndArgs ...any) {
+	t.Helper()
+	require.Empty(t, hintsOf(d, kind), msgAndArgs...)
+	js, err := d.JSON()
+	require.NoError(t, err)
+	var parsed struct {
+		Hints []struct{ Kind string } `json:"hints"`
+	}
+	require.NoError(t, json.Unmarshal(js, &parsed))
+	for _, h := range parsed.Hints {
+		require.NotEqual(t, string(kind), h.Kind, msgAndArgs...)
+	}
+	require.NotContains(t, d.HTML(), `data-hint="`+string(kind)+`"`, msgAndArgs...)
+	// Wide text, so that no phrase is wrapped onto two lines.
+	for _, out := range []string{d.TextWith(TextStyle{Width: 1000}), d.TextWith(TextStyle{Width: 1000, Flags: true}), d.Markdown(), d.HTML(), string(js)} {
+		for _, w := range hintWords[kind] {
+			require.NotContains(t, out, w, msgAndArgs...)
+		}
+	}
+}
+
+// requireNoHints checks that d has no hint at all, and that no rendering
+// has a hints section.
+func requireNoHints(t *testing.T, d *Diff) {
+	t.Helper()
+	require.Empty(t, d.Hints)
+	for kind := range hintWords {
+		requireNoHint(t, d, kind)
+	}
+	js, err := d.JSON()
+	require.NoError(t, err)
+	require.Contains(t, string(js), `"hints": []`, "an empty list, never null")
+	require.NotContains(t, d.Text(), "hint")
+	require.NotContains(t, d.Markdown(), "Hint")
+	require.NotContains(t, d.HTML(), `class="ps-hints"`)
 }
 
 func TestHintRowOrder(t *testing.T) {
@@ -109,16 +171,16 @@ func TestHintRowOrder(t *testing.T) {
 		Bellecôte    | 22.5         | 140
 		Kæreby       | 19.25        | 133
 	`)
-	require.Empty(t, hintsOf(Compare(want, changed), HintRowOrder))
+	requireNoHint(t, Compare(want, changed), HintRowOrder)
 	inPlace := fixtures.MustParse(t, `
 		house:string | tmax:float64 | kept:int64
 		Bellecôte    | 22.5         | 140
 		Kæreby       | 19.5         | 133
 		Les Pins     | 17           | 120
 	`)
-	require.Empty(t, hintsOf(Compare(want, inPlace), HintRowOrder))
-	require.Empty(t, Compare(want, changed, ByKey("house")).Hints)
-	require.Empty(t, Compare(want, want).Hints)
+	requireNoHint(t, Compare(want, inPlace), HintRowOrder)
+	requireNoHints(t, Compare(want, changed, ByKey("house")))
+	requireNoHints(t, Compare(want, want))
 }
 
 func TestHintLooseTypes(t *testing.T) {
@@ -143,15 +205,15 @@ func TestHintLooseTypes(t *testing.T) {
 			require.Equal(t, c.agree, strings.Contains(hs[0].Text, "the values agree"), hs[0].Text)
 			requireRendered(t, d)
 			// Must not, once the option is given.
-			require.Empty(t, hintsOf(Compare(fixtures.MustParse(t, c.want), fixtures.MustParse(t, c.got), LooseTypes()), HintLooseTypes))
+			requireNoHint(t, Compare(fixtures.MustParse(t, c.want), fixtures.MustParse(t, c.got), LooseTypes()), HintLooseTypes)
 		})
 	}
 	// Must not: kinds LooseTypes does not bridge.
 	d := Compare(fixtures.MustParse(t, "n:int64\n3"), fixtures.MustParse(t, "n:string\n3"))
 	require.NotEmpty(t, d.Schema)
-	require.Empty(t, hintsOf(d, HintLooseTypes))
+	requireNoHint(t, d, HintLooseTypes)
 	d = Compare(fixtures.MustParse(t, "n:timestamp(ms)\n2026-04-01T00:00:00"), fixtures.MustParse(t, "n:timestamp(s)\n2026-04-01T00:00:00"))
-	require.Empty(t, hintsOf(d, HintLooseTypes), "a unit change is not a kind change")
+	requireNoHint(t, d, HintLooseTypes, "a unit change is not a kind change")
 }
 
 func TestHintDidYouMean(t *testing.T) {
@@ -181,8 +243,8 @@ func TestHintDidYouMean(t *testing.T) {
 	require.Equal(t, "House", hs[0].Suggest)
 
 	// Must not: nothing close, and a name that exists.
-	require.Empty(t, hintsOf(Compare(want, want, ByKey("zone")), HintDidYouMean))
-	require.Empty(t, Compare(want, want, ByKey("house")).Hints)
+	requireNoHint(t, Compare(want, want, ByKey("zone")), HintDidYouMean)
+	requireNoHints(t, Compare(want, want, ByKey("house")))
 
 	// A renamed column.
 	renamed := fixtures.MustParse(t, `
@@ -197,7 +259,7 @@ func TestHintDidYouMean(t *testing.T) {
 		house:string | kept:int64
 		Bellecôte    | 140
 	`)
-	require.Empty(t, hintsOf(Compare(want, other), HintRenamed), "tmax and kept are not one column renamed")
+	requireNoHint(t, Compare(want, other), HintRenamed, "tmax and kept are not one column renamed")
 }
 
 func TestHintNearMatch(t *testing.T) {
@@ -262,9 +324,9 @@ func TestHintNearMatch(t *testing.T) {
 
 	// Must not: keys that are really different, rows not keyed, no
 	// extra row.
-	require.Empty(t, hintsOf(Compare(tb("Père"), tb("Mère"), ByKey("house")), HintNearMatch))
-	require.Empty(t, hintsOf(Compare(tb("Père", "x"), tb("PÈRE"), AnyRowOrder()), HintNearMatch))
-	require.Empty(t, hintsOf(Compare(tb("Père", "Mère"), tb("Père"), ByKey("house")), HintNearMatch))
+	requireNoHint(t, Compare(tb("Père"), tb("Mère"), ByKey("house")), HintNearMatch)
+	requireNoHint(t, Compare(tb("Père", "x"), tb("PÈRE"), AnyRowOrder()), HintNearMatch)
+	requireNoHint(t, Compare(tb("Père", "Mère"), tb("Père"), ByKey("house")), HintNearMatch)
 }
 
 func TestHintScale(t *testing.T) {
@@ -312,10 +374,10 @@ func TestHintScale(t *testing.T) {
 
 	// Must not: one cell off the factor, random changes, a null on one
 	// side, a single cell.
-	require.Empty(t, hintsOf(Compare(share, col("share", 25, 50, 0, 12.6)), HintScale))
-	require.Empty(t, hintsOf(Compare(share, col("share", 0.3, 0.4, 0.1, 0.2)), HintScale))
-	require.Empty(t, hintsOf(Compare(col("share", 0.25, 0.5), col("share", 0.25, 50)), HintScale), "one cell is no pattern")
+	requireNoHint(t, Compare(share, col("share", 25, 50, 0, 12.6)), HintScale)
+	requireNoHint(t, Compare(share, col("share", 0.3, 0.4, 0.1, 0.2)), HintScale)
+	requireNoHint(t, Compare(col("share", 0.25, 0.5), col("share", 0.25, 50)), HintScale, "one cell is no pattern")
 	nulls := fixtures.MustParse(t, "share:float64\n25\n~\n12.5")
-	require.Empty(t, hintsOf(Compare(fixtures.MustParse(t, "share:float64\n0.25\n0.5\n0.125"), nulls), HintScale))
-	require.Empty(t, hintsOf(Compare(col("x", 1, 2), col("x", 3, 4)), HintScale))
+	requireNoHint(t, Compare(fixtures.MustParse(t, "share:float64\n0.25\n0.5\n0.125"), nulls), HintScale)
+	requireNoHint(t, Compare(col("x", 1, 2), col("x", 3, 4)), HintScale)
 }

@@ -78,43 +78,115 @@ func TestDiffExitStatusAndFormats(t *testing.T) {
 }
 
 // TestDiffHints checks that the command line shows each hint with the
-// flag that fixes it, and none where nothing fits.
+// flag that fixes it in every output format (text, Markdown, HTML, JSON),
+// and shows none where the hint does not fit.
 func TestDiffHints(t *testing.T) {
 	dir := writeFiles(t, map[string]string{
 		"want.csv":     dailyWant,
 		"shuffled.csv": "house,day,tmax,kept\nMas,2026-04-02,17,120\nÉtang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\n",
-		"floats.csv":   "house,day,tmax,kept\nÉtang,2026-04-01,21.5,140.0\nLes Pins,2026-04-01,18.25,139.5\nMas,2026-04-02,17,120.0\n",
-		"pct.csv":      "house,day,tmax,kept\nÉtang,2026-04-01,2150,140\nLes Pins,2026-04-01,1825,139\nMas,2026-04-02,1700,120\n",
+		// In another order, and Mas's kept changed: not the same rows.
+		"shuffled-changed.csv": "house,day,tmax,kept\nMas,2026-04-02,17,121\nÉtang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\n",
+		"floats.csv":           "house,day,tmax,kept\nÉtang,2026-04-01,21.5,140.0\nLes Pins,2026-04-01,18.25,139.5\nMas,2026-04-02,17,120.0\n",
+		"pct.csv":              "house,day,tmax,kept\nÉtang,2026-04-01,2150,140\nLes Pins,2026-04-01,1825,139\nMas,2026-04-02,1700,120\n",
+		"drift.csv":            "house,day,tmax,kept\nÉtang,2026-04-01,21.7,140\nLes Pins,2026-04-01,18.2,139\nMas,2026-04-02,17.9,120\n",
 		// Source: WHATWG Encoding Standard — É is C3 89 in UTF-8; read as
 		// windows-1252 those bytes are Ã (U+00C3) and ‰ (U+2030).
-		"mojibake.csv": "house,day,tmax,kept\nÃ‰tang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n",
+		"mojibake.csv":    "house,day,tmax,kept\nÃ‰tang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n",
+		"other-house.csv": "house,day,tmax,kept\nOrée,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n",
+		"renamed.csv":     "house,day,t_max,kept\nÉtang,2026-04-01,21.5,140\nLes Pins,2026-04-01,18.25,139\nMas,2026-04-02,17,120\n",
+		"replaced.csv":    "house,day,status,kept\nÉtang,2026-04-01,ok,140\nLes Pins,2026-04-01,ok,139\nMas,2026-04-02,ok,120\n",
 	})
 	f := func(name string) string { return filepath.Join(dir, name) }
+	key := []string{"--key", "house,day"}
 	cases := []struct {
 		name  string
 		args  []string
-		shows []string
+		kind  string   // the hint's kind in the JSON
+		shows []string // in the text, the first also in Markdown and HTML
+		not   bool     // the hint must not be given
 	}{
-		{"rows in another order", []string{f("want.csv"), f("shuffled.csv")}, []string{"the tables hold the same rows in another order", "fix: --key house or --any-row-order"}},
-		{"int64 became float64", []string{"--key", "house,day", f("want.csv"), f("floats.csv")}, []string{`column "kept" is int64 in want and float64 in got`, "fix: --loose-types"}},
-		{"a column ×100", []string{"--key", "house,day", f("want.csv"), f("pct.csv")}, []string{`every cell of column "tmax" in got is its want cell × 100`}},
-		{"a key in another encoding", []string{"--key", "house,day", f("want.csv"), f("mojibake.csv")}, []string{"differ only by encoding", "⇄"}},
-		{"no hint", []string{"--key", "house,day", f("want.csv"), f("want.csv")}, nil},
+		{"rows in another order", []string{f("want.csv"), f("shuffled.csv")}, "row_order",
+			[]string{"the tables hold the same rows in another order", "fix: --key house or --any-row-order"}, false},
+		{"rows in another order, one changed", []string{f("want.csv"), f("shuffled-changed.csv")}, "row_order", nil, true},
+		{"int64 became float64", append(key, f("want.csv"), f("floats.csv")), "loose_types",
+			[]string{`column "kept" is int64 in want and float64 in got`, "fix: --loose-types"}, false},
+		{"int64 became float64, loose types given", append(key, "--loose-types", f("want.csv"), f("floats.csv")), "loose_types", nil, true},
+		{"a column ×100", append(key, f("want.csv"), f("pct.csv")), "scale",
+			[]string{`every cell of column "tmax" in got is its want cell × 100`}, false},
+		{"a column drifted", append(key, f("want.csv"), f("drift.csv")), "scale", nil, true},
+		{"a key in another encoding", append(key, f("want.csv"), f("mojibake.csv")), "near_match",
+			[]string{"differ only by encoding", "⇄"}, false},
+		{"another key", append(key, f("want.csv"), f("other-house.csv")), "near_match", nil, true},
+		{"a column renamed", append(key, f("want.csv"), f("renamed.csv")), "renamed",
+			[]string{`column "tmax" is missing from got and "t_max" is extra`}, false},
+		{"a column replaced", append(key, f("want.csv"), f("replaced.csv")), "renamed", nil, true},
+		{"no hint", append(key, f("want.csv"), f("want.csv")), "", nil, true},
+	}
+	words := map[string]string{ // what each kind says, in every format
+		"row_order": "same rows in another order", "loose_types": "with loose types", "scale": "in got is its want cell",
+		"near_match": "differ only by", "renamed": "the same column renamed?",
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			r := runBin(t, "", nil, append([]string{"diff"}, c.args...)...)
-			require.Empty(t, r.stderr)
-			for _, s := range c.shows {
-				require.Contains(t, r.stdout, s)
+			outs := map[string]string{}
+			for _, format := range []string{"text", "markdown", "html", "json"} {
+				r := runBin(t, "", nil, append([]string{"diff", "--format", format}, c.args...)...)
+				require.Empty(t, r.stderr)
+				require.Contains(t, []int{exitSame, exitDiffers}, r.code)
+				outs[format] = r.stdout
 			}
-			if c.shows == nil {
-				require.NotContains(t, r.stdout, "hint")
-			} else {
-				require.NotContains(t, r.stdout, "fix: AnyRowOrder", "the command line names flags")
+			var js struct {
+				Hints []struct {
+					Kind, Text, Flag string
+				} `json:"hints"`
+			}
+			require.NoError(t, json.Unmarshal([]byte(outs["json"]), &js))
+			var kinds []string
+			for _, h := range js.Hints {
+				kinds = append(kinds, h.Kind)
+			}
+			if c.not {
+				require.NotContains(t, kinds, c.kind)
+				require.NotContains(t, outs["html"], `data-hint="`+c.kind+`"`)
+				for format, out := range outs {
+					if w := words[c.kind]; w != "" {
+						require.NotContains(t, out, w, format)
+					}
+				}
+				if c.kind == "" {
+					require.Empty(t, kinds)
+					require.NotContains(t, outs["text"], "hint")
+					require.NotContains(t, outs["markdown"], "Hint")
+					require.NotContains(t, outs["html"], `class="ps-hint`)
+				}
+				return
+			}
+			require.Contains(t, kinds, c.kind)
+			require.Contains(t, outs["html"], `data-hint="`+c.kind+`"`)
+			for _, s := range c.shows {
+				require.Contains(t, outs["text"], s)
+			}
+			for format, out := range outs {
+				require.Contains(t, out, words[c.kind], format)
+			}
+			require.NotContains(t, outs["text"], "fix: AnyRowOrder", "the command line names flags")
+			for _, h := range js.Hints {
+				if h.Flag != "" {
+					require.True(t, strings.HasPrefix(h.Flag, "--"), h.Flag)
+					require.Contains(t, outs["markdown"], h.Flag)
+				}
 			}
 		})
 	}
+
+	// A misspelt key is trouble, with the closest name; one with nothing
+	// close is trouble without a guess.
+	r := runBin(t, "", nil, "diff", "--key", "hause", f("want.csv"), f("want.csv"))
+	require.Equal(t, exitTrouble, r.code)
+	require.Contains(t, r.stderr, `did you mean "house"?`)
+	r = runBin(t, "", nil, "diff", "--key", "zone", f("want.csv"), f("want.csv"))
+	require.Equal(t, exitTrouble, r.code)
+	require.NotContains(t, r.stderr, "did you mean")
 }
 
 func TestDiffOptions(t *testing.T) {
