@@ -13,6 +13,7 @@ import (
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
 // writeFiles writes files into a fresh temporary directory and returns it.
@@ -407,4 +408,24 @@ func TestDiffKeepsKeysWhole(t *testing.T) {
 	}
 	require.Contains(t, r.stdout, "("+house+", "+bay+", 2026-04-01)", "the column summary names the whole key")
 	require.NotContains(t, r.stdout, note+"!", "the note, not a key, is shortened")
+	// Every line fits in 100 columns, except a line of keys that need
+	// the room.
+	for _, l := range strings.Split(r.stdout, "\n") {
+		if textwidth.Width(l) > 100 {
+			require.Contains(t, l, house, "a line wider than 100 columns without a key: %q", l)
+		}
+	}
+
+	// The other formats cut nothing: every key whole, also in the column
+	// summary.
+	for _, format := range []string{"markdown", "html", "json"} {
+		r := runBin(t, "", nil, "diff", "--format", format, "--key", "house,bay,day", filepath.Join(dir, "want.csv"), filepath.Join(dir, "got.csv"))
+		require.Equal(t, exitDiffers, r.code, r.stderr)
+		for _, k := range []string{house, bay, "2026-04-01", "2026-04-02", "2026-04-03"} {
+			require.Contains(t, r.stdout, k, format)
+		}
+		if format == "markdown" {
+			require.Contains(t, r.stdout, "1 at ("+house+", "+bay+", 2026-04-01)")
+		}
+	}
 }
