@@ -10,6 +10,13 @@ import (
 	"path/filepath"
 	"testing"
 
+	"github.com/apache/arrow-go/v18/arrow"
+	"github.com/apache/arrow-go/v18/arrow/array"
+	"github.com/apache/arrow-go/v18/arrow/ipc"
+	"github.com/apache/arrow-go/v18/arrow/memory"
+	pq "github.com/apache/arrow-go/v18/parquet"
+	"github.com/apache/arrow-go/v18/parquet/pqarrow"
+	"github.com/klauspost/compress/zstd"
 	"github.com/stretchr/testify/require"
 
 	"github.com/proofsheet/proofsheet/fixtures"
@@ -130,4 +137,96 @@ func TestProfileStdinCompressed(t *testing.T) {
 	// --json is --format json.
 	r2 := runBinStdin(t, gz.Bytes(), "profile", "--json", "--delimiter", ";", "--types", "tmax=string", "-")
 	require.Equal(t, r.stdout, r2.stdout)
+}
+
+// arrowRecord builds a small greenhouse record with Arrow's own builders.
+func arrowRecord(t *testing.T) arrow.Record {
+	t.Helper()
+	sc := arrow.NewSchema([]arrow.Field{
+		{Name: "house", Type: arrow.BinaryTypes.String, Nullable: true},
+		{Name: "tmax", Type: arrow.PrimitiveTypes.Float64, Nullable: true},
+	}, nil)
+	b := array.NewRecordBuilder(memory.NewGoAllocator(), sc)
+	defer b.Release()
+	b.Field(0).(*array.StringBuilder).AppendValues([]string{"Étang", "Verger"}, nil)
+	b.Field(1).(*array.Float64Builder).AppendValues([]float64{21.5, 19}, nil)
+	return b.NewRecord()
+}
+
+// TestBinaryFormatsOnStdin reads standard input written by Arrow's own
+// Parquet and IPC writers, plain and compressed with the zstd library and
+// compress/gzip: the CLI tells the format by the magic numbers, or takes
+// it from --input-format, which also reads a file whose name says nothing.
+func TestBinaryFormatsOnStdin(t *testing.T) {
+	rec := arrowRecord(t)
+	defer rec.Release()
+	tbl := array.NewTableFromRecords(rec.Schema(), []arrow.Record{rec})
+	defer tbl.Release()
+	var pqBuf bytes.Buffer
+	// Source: Arrow's Parquet writer (parquet/pqarrow.WriteTable).
+	require.NoError(t, pqarrow.WriteTable(tbl, &pqBuf, 1024, pq.NewWriterProperties(), pqarrow.DefaultWriterProps()))
+	var ipcBuf bytes.Buffer
+	// Source: Arrow's IPC stream writer (arrow/ipc.NewWriter).
+	w := ipc.NewWriter(&ipcBuf, ipc.WithSchema(rec.Schema()))
+	require.NoError(t, w.Write(rec))
+	require.NoError(t, w.Close())
+	enc, err := zstd.NewWriter(nil)
+	require.NoError(t, err)
+	zstdIPC := enc.EncodeAll(ipcBuf.Bytes(), nil)
+	require.NoError(t, enc.Close())
+	var gzPQ bytes.Buffer
+	zw := gzip.NewWriter(&gzPQ)
+	_, err = zw.Write(pqBuf.Bytes())
+	require.NoError(t, err)
+	require.NoError(t, zw.Close())
+
+	dir := t.TempDir()
+	want := filepath.Join(dir, "want.csv")
+	require.NoError(t, os.WriteFile(want, []byte("house,tmax\nÉtang,21.5\nVerger,19\n"), 0o644))
+	tests := []struct {
+		name  string
+		stdin []byte
+		args  []string
+		want  fixtures.Format
+		comp  fixtures.Compression
+	}{
+		{"parquet by magic number", pqBuf.Bytes(), nil, fixtures.FormatParquet, ""},
+		{"gzip-compressed parquet", gzPQ.Bytes(), nil, fixtures.FormatParquet, fixtures.CompressionGzip},
+		{"zstd-compressed arrow stream", zstdIPC, nil, fixtures.FormatArrowStream, fixtures.CompressionZstd},
+		{"parquet as told", pqBuf.Bytes(), []string{"--input-format", "parquet"}, fixtures.FormatParquet, ""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			args := append(append([]string{"profile", "--json"}, tt.args...), "-")
+			r := runBinStdin(t, tt.stdin, args...)
+			require.Equal(t, exitSame, r.code, r.stderr)
+			var rep fixtures.LoadReport
+			require.NoError(t, json.Unmarshal([]byte(r.stdout), &rep))
+			require.Equal(t, tt.want, rep.Format)
+			require.Equal(t, tt.comp, rep.Compression)
+			require.Equal(t, tt.args == nil, rep.FormatSniffed)
+			require.Equal(t, 2, rep.Rows)
+
+			if tt.args == nil { // --input-format would apply to want.csv too
+				r = runBinStdin(t, tt.stdin, "diff", want, "-")
+				require.Equal(t, exitSame, r.code, r.stdout+r.stderr)
+			}
+		})
+	}
+
+	// --input-format reads a file by the format given, whatever its name
+	// or bytes say: a semicolon-separated file named .dat as TSV keeps
+	// one column; and a wrong format is trouble that names the file.
+	dat := filepath.Join(dir, "readings.dat")
+	require.NoError(t, os.WriteFile(dat, []byte("house;tmax\nÉtang;21.5\n"), 0o644))
+	r := runBin(t, "", nil, "profile", "--json", "--input-format", "tsv", dat)
+	require.Equal(t, exitSame, r.code, r.stderr)
+	var rep fixtures.LoadReport
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &rep))
+	require.Equal(t, fixtures.FormatTSV, rep.Format)
+	require.Len(t, rep.Columns, 1)
+	require.Equal(t, "house;tmax", rep.Columns[0].Name)
+	r = runBin(t, "", nil, "profile", "--input-format", "parquet", dat)
+	require.Equal(t, exitTrouble, r.code, r.stdout)
+	require.Contains(t, r.stderr, dat)
 }
