@@ -46,7 +46,10 @@ const readerHelp = `Reading (the same options in every command that reads tables
                      (default: the first)
   --as-text          read every column as text (no type inference)
   --types SPEC       declare column kinds, e.g. 'amount=decimal(12,2),day=date';
-                     repeatable. Money read as decimal compares exactly.
+                     repeatable. Types: bool, int64, float64, string,
+                     category, date, timestamp(UNIT[,ZONE]), decimal(P,S),
+                     time(UNIT), duration(UNIT); UNIT s, ms, us or ns.
+                     Money read as decimal compares exactly.
   --types-file FILE  declare the kinds of the columns a file names: a literal
                      table header (amount:decimal(12,2) | day:date) or a gen
                      schema file (NAME TYPE per line)

@@ -41,9 +41,9 @@ func runBinStdin(t *testing.T, stdin []byte, args ...string) result {
 }
 
 func TestParseTypes(t *testing.T) {
-	s, err := parseTypes(`amount=decimal(12,2), day=date,"air temp"=float64,at=timestamp(ms,UTC)`)
+	s, err := parseTypes(`amount=decimal(12,2), day=date,"air temp"=float64,at=timestamp(ms,UTC),opens=time(s),vented=duration(ms)`)
 	require.NoError(t, err)
-	require.Equal(t, "amount:decimal(12,2), day:date, air temp:float64, at:timestamp(ms,UTC)", s.String())
+	require.Equal(t, "amount:decimal(12,2), day:date, air temp:float64, at:timestamp(ms,UTC), opens:time(s), vented:duration(ms)", s.String())
 	for spec, msg := range map[string]string{
 		"":                     "no column declared",
 		"amount":               `"amount": want NAME=TYPE`,
