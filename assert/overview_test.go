@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
 // seriesTables builds want and got with n rows keyed by id 0..n-1, a float
@@ -272,4 +273,34 @@ func TestOverviewOfExtremeFloats(t *testing.T) {
 	for _, b := range n.Bins {
 		require.False(t, math.IsInf(b.Lo, 0) || math.IsNaN(b.Lo) || math.IsInf(b.Hi, 0) || math.IsNaN(b.Hi), "%v", b)
 	}
+}
+
+// TestPictureWords checks the words the pictures draw: a long level name
+// is shortened beside its bars and kept whole in its title and the
+// caption; a log-scale bin names its smaller magnitude first on either
+// side of zero; zero divides the decades below from those above.
+func TestPictureWords(t *testing.T) {
+	long := "sensor fault reported by the datalogger of the north bay"
+	w, g := seriesTables(t, 20, func(i int) float64 {
+		m := math.Pow(10, float64(i%5)-3)
+		if i%2 == 0 {
+			m = -m
+		}
+		return float64(i) + m
+	}, func(int) string { return "ok" }, func(i int) string { return pick(i < 4, long, "ok") })
+	d := Compare(w, g, ByKey("id"))
+	out := d.HTML()
+	label := textwidth.Truncate(long, levelLabelCols-len(" (added)")) + " (added)"
+	require.Contains(t, label, "…")
+	require.Contains(t, out, "<title>"+long+" (added)</title>"+label+"</text>")
+	require.Contains(t, out, long+" (added) 0 → 4", "the caption names the level whole")
+
+	n := d.Overview.Numbers[0]
+	require.True(t, n.Log)
+	for _, b := range n.Bins {
+		text := binText(b, true, "want", "got")
+		a, z := math.Abs(b.Lo), math.Abs(b.Hi)
+		require.Contains(t, text, "from "+fmtNum(min(a, z))+" to "+fmtNum(max(a, z)), text)
+	}
+	require.Len(t, byClass(parseFragment(t, out), "ps-zero"), 1, "zero between the two sides")
 }

@@ -6,6 +6,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
 // The pictures of a Diff's Overview, drawn as inline SVG by this file: no
@@ -173,6 +175,21 @@ func (d *Diff) histogramFigure(h *htmlWriter, n NumberShape) {
 		fmt.Fprintf(&body, `<rect class="ps-bar" x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="%s"><title>%s</title></rect>`,
 			float64(left)+float64(i)*bw+0.5, float64(top)+plotH-bh, max(bw-1, 0.5), bh, fill, html.EscapeString(binText(b, n.Log, wn, gn)+": "+count(b.Count, "cell", "cells")))
 	}
+	// On a log scale the decades below zero stand left of those above:
+	// zero is the border between them.
+	if n.Log {
+		negs := 0
+		for _, b := range n.Bins {
+			if b.Hi <= 0 {
+				negs++
+			}
+		}
+		if negs > 0 && negs < len(n.Bins) {
+			x := float64(left) + float64(negs)*bw
+			fmt.Fprintf(&body, `<line class="ps-zero" x1="%.1f" y1="%d" x2="%.1f" y2="%.1f" stroke="%s" stroke-dasharray="3 2"/>`, x, top, x, float64(top)+plotH, picInk)
+			body.WriteString(svgText(x, float64(top)+plotH+14, "middle", picMuted, "0"))
+		}
+	}
 	// The zero line, and the tolerance where the axis is linear.
 	if !n.Log && len(n.Bins) > 0 {
 		lo, hi := n.Bins[0].Lo, n.Bins[len(n.Bins)-1].Hi
@@ -190,11 +207,14 @@ func (d *Diff) histogramFigure(h *htmlWriter, n NumberShape) {
 		body.WriteString(svgText(left, float64(top)+plotH+14, "start", picMuted, fmtNum(n.Bins[0].Lo)))
 		body.WriteString(svgText(float64(w-right), float64(top)+plotH+14, "end", picMuted, fmtNum(n.Bins[len(n.Bins)-1].Hi)))
 	}
-	scale := "equal-width bins"
+	scale, axis := "equal-width bins", "equal-width bins"
 	if n.Log {
 		scale = "log scale: one bin per decade of |" + gn + " − " + wn + "| on each side of zero"
+		axis = "log scale, a bin per decade"
 	}
-	body.WriteString(svgText(float64(left)+plotW/2, float64(ht-10), "middle", picInk, gn+" − "+wn+" ("+scale+")"))
+	// The axis gets the short words (the caption has the long ones): the
+	// picture is 360 units wide and cuts what does not fit.
+	body.WriteString(svgText(float64(left)+plotW/2, float64(ht-10), "middle", picInk, gn+" − "+wn+" ("+axis+")"))
 	body.WriteString(svgText(float64(left-4), float64(top+10), "end", picMuted, strconv.Itoa(peak)))
 	caption := fmt.Sprintf("Histogram of %s − %s in column %s over %s, %s; from %s to %s; the most, %s, in %s.",
 		gn, wn, n.Column, count(n.Cells, "differing cell", "differing cells"), scale, fmtNum(n.Bins[0].Lo), fmtNum(n.Bins[len(n.Bins)-1].Hi),
@@ -208,7 +228,10 @@ func (d *Diff) histogramFigure(h *htmlWriter, n NumberShape) {
 // binText writes a histogram bin's range.
 func binText(b DeltaBin, log bool, wn, gn string) string {
 	if log {
-		return fmt.Sprintf("|%s − %s| from %s to %s (%s)", gn, wn, fmtNum(math.Abs(b.Lo)), fmtNum(math.Abs(b.Hi)), pick(b.Hi <= 0, gn+" below "+wn, gn+" above "+wn))
+		// Below zero the bin's Lo is the larger magnitude: name the
+		// smaller first either way.
+		a, z := math.Abs(b.Lo), math.Abs(b.Hi)
+		return fmt.Sprintf("|%s − %s| from %s to %s (%s)", gn, wn, fmtNum(min(a, z)), fmtNum(max(a, z)), pick(b.Hi <= 0, gn+" below "+wn, gn+" above "+wn))
 	}
 	return fmt.Sprintf("[%s, %s]", fmtNum(b.Lo), fmtNum(b.Hi))
 }
@@ -301,6 +324,14 @@ func fixtureNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // levelsFigure draws the rows of each changed level of a category column
 // on both sides.
+// levelLabelCols is how many terminal columns of a level's name the levels
+// picture shows beside its bars: 144 units of 11-unit sans-serif text, at
+// about 7 units a column, which leaves room for punctuation and capitals
+// in a wide face such as DejaVu Sans (Debian's fallback for system-ui).
+// Common practice, no published source: the average advance of Latin
+// sans-serif text is a little over half its size.
+const levelLabelCols = 20
+
 func (d *Diff) levelsFigure(h *htmlWriter, c CategoryShape) {
 	wn, gn := d.wantName(), d.gotName()
 	const w, labelW, rowH, top = 520, 150, 22, 22
@@ -316,13 +347,20 @@ func (d *Diff) levelsFigure(h *htmlWriter, c CategoryShape) {
 	var words []string
 	for i, l := range c.Levels {
 		y := float64(top + i*rowH)
-		name := l.Level
+		name, mark := l.Level, ""
 		if l.Added {
-			name += " (added)"
+			mark = " (added)"
 		} else if l.Removed {
-			name += " (removed)"
+			mark = " (removed)"
 		}
-		body.WriteString(svgText(labelW-6, y+13, "end", picInk, name))
+		name += mark
+		// The label has labelW units, about levelLabelCols columns of
+		// text at this size: a longer level is shortened here (whole in
+		// the label's title, the bars' titles and the caption), never cut
+		// by the picture's edge.
+		label := textwidth.Truncate(l.Level, max(levelLabelCols-textwidth.Width(mark), 4)) + mark
+		fmt.Fprintf(&body, `<text x="%d" y="%.1f" text-anchor="end" fill="%s"><title>%s</title>%s</text>`,
+			labelW-6, y+13, picInk, html.EscapeString(name), html.EscapeString(label))
 		for k, side := range []struct {
 			n     int
 			fill  string

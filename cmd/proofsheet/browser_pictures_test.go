@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"math"
 	"net/url"
 	"os"
 	"path/filepath"
@@ -85,17 +86,18 @@ func evalJS[T any](t *testing.T, ctx context.Context, js string) T {
 }
 
 // pictureTables writes the want and got files of a daily report whose
-// tmax and status changed in a late stretch of the key order (tmax by
-// amounts from 0.1 to 3.2, some within the tolerance; status lost the
-// level "gap" to "sensor-gap"), and which lost two rows and gained one.
-// It returns the file names, the tmax cells that differ beyond the
-// tolerance and the rows of "gap".
-func pictureTables(t *testing.T, dir string) (want, got string, tmaxDiffering, gaps int) {
+// tmax, status and rain changed in a late stretch of the key order (tmax
+// by amounts from 0.1 to 3.2, some within the tolerance; status lost the
+// level "gap" to "sensor-gap"; rain by amounts from 0.001 to 10 of both
+// signs, four decades), and which lost two rows and gained one. It
+// returns the file names, the tmax cells that differ beyond the
+// tolerance, the rows of "gap" and the rain cells that differ.
+func pictureTables(t *testing.T, dir string) (want, got string, tmaxDiffering, gaps, rainDiffering int) {
 	t.Helper()
 	houses := []string{"Bellecôte", "Kæreby", "Les Pins", "Étang", "Mas", "Source", "Verger", "Colline"}
 	var wb, gb strings.Builder
-	wb.WriteString("house,day,tmax,status\n")
-	gb.WriteString("house,day,tmax,status\n")
+	wb.WriteString("house,day,tmax,status,rain\n")
+	gb.WriteString("house,day,tmax,status,rain\n")
 	n := 0
 	for _, h := range houses {
 		for day := 1; day <= 30; day++ {
@@ -108,7 +110,8 @@ func pictureTables(t *testing.T, dir string) (want, got string, tmaxDiffering, g
 				status = "gap"
 				gaps++
 			}
-			fmt.Fprintf(&wb, "%s,%s,%s\n", key, fixtures.FormatFloat(tmax), status)
+			rain := float64(n%7) * 1.5
+			fmt.Fprintf(&wb, "%s,%s,%s,%s\n", key, fixtures.FormatFloat(tmax), status, fixtures.FormatFloat(rain))
 			if h == "Mas" && day > 28 {
 				continue // missing in got
 			}
@@ -127,14 +130,23 @@ func pictureTables(t *testing.T, dir string) (want, got string, tmaxDiffering, g
 					tmaxDiffering++
 				}
 			}
-			fmt.Fprintf(&gb, "%s,%s,%s\n", key, fixtures.FormatFloat(gt), gs)
+			gr := rain
+			if late && n%3 == 0 {
+				delta := math.Pow(10, float64(n%5)-3) // 0.001 to 10
+				if n%2 == 0 {
+					delta = -delta
+				}
+				gr = rain + delta
+				rainDiffering++
+			}
+			fmt.Fprintf(&gb, "%s,%s,%s,%s\n", key, fixtures.FormatFloat(gt), gs, fixtures.FormatFloat(gr))
 		}
 	}
-	gb.WriteString("Ruche,2026-04-01,12.5,ok\n") // extra
+	gb.WriteString("Ruche,2026-04-01,12.5,ok,0\n") // extra
 	want, got = filepath.Join(dir, "want.csv"), filepath.Join(dir, "got.csv")
 	require.NoError(t, os.WriteFile(want, []byte(wb.String()), 0o644))
 	require.NoError(t, os.WriteFile(got, []byte(gb.String()), 0o644))
-	return want, got, tmaxDiffering, gaps
+	return want, got, tmaxDiffering, gaps, rainDiffering
 }
 
 // TestDiffPagePicturesInBrowser draws the pictures of a diff page in
@@ -143,7 +155,7 @@ func pictureTables(t *testing.T, dir string) (want, got string, tmaxDiffering, g
 func TestDiffPagePicturesInBrowser(t *testing.T) {
 	needChromium(t)
 	dir := t.TempDir()
-	want, got, differing, gaps := pictureTables(t, dir)
+	want, got, differing, gaps, rainDiffering := pictureTables(t, dir)
 	require.Greater(t, differing, 20)
 	page := filepath.Join(dir, "diff.html")
 	r := runBin(t, "", nil, "diff", "--key", "house,day", "--tol", "tmax=abs:0.05", "--format", "html", "--out", page, want, got)
@@ -156,8 +168,13 @@ func TestDiffPagePicturesInBrowser(t *testing.T) {
 	require.NoError(t, err)
 	d := assert.Compare(wt, gt, assert.ByKey("house", "day"), assert.Tol("tmax", 0.05, 0))
 	require.NotNil(t, d.Overview)
-	require.Len(t, d.Overview.Numbers, 1)
+	require.Len(t, d.Overview.Numbers, 2)
+	require.Equal(t, "tmax", d.Overview.Numbers[0].Column)
 	require.Equal(t, differing, d.Overview.Numbers[0].Cells)
+	rain := d.Overview.Numbers[1]
+	require.Equal(t, "rain", rain.Column)
+	require.Equal(t, rainDiffering, rain.Cells)
+	require.True(t, rain.Log, "four decades of differences: a log scale")
 	require.Len(t, d.Overview.Categories, 1)
 
 	ctx := browse(t, page, false)
@@ -165,7 +182,7 @@ func TestDiffPagePicturesInBrowser(t *testing.T) {
 	truth := func(js string) bool { return evalJS[bool](t, ctx, js) }
 
 	// One picture of each kind, each an accessible image with words.
-	for kind, n := range map[string]int{"strip": 1, "histogram": 1, "scatter": 1, "levels": 1} {
+	for kind, n := range map[string]int{"strip": 1, "histogram": 2, "scatter": 2, "levels": 1} {
 		require.Equal(t, n, num(`document.querySelectorAll('figure.ps-figure[data-picture="`+kind+`"]').length`), kind)
 	}
 	require.True(t, truth(`Array.from(document.querySelectorAll("svg.`+assert.HTMLPicture+`")).every(function(s){
@@ -173,21 +190,28 @@ func TestDiffPagePicturesInBrowser(t *testing.T) {
 		return s.getAttribute("role")==="img" && s.getAttribute("aria-label").length>10 &&
 			s.querySelector("title") && s.querySelector("desc").textContent.length>20 && c && c.textContent.length>20})`),
 		"every picture has a role, a label, a title, a description and a caption")
+	// Every word drawn in a picture lies inside it: nothing is cut at
+	// the picture's edges.
+	cut := evalJS[[]string](t, ctx, `Array.from(document.querySelectorAll("svg.`+assert.HTMLPicture+` text")).filter(function(t){
+		var b=t.getBoundingClientRect(), s=t.ownerSVGElement.getBoundingClientRect();
+		return b.left < s.left-0.5 || b.top < s.top-0.5 || b.right > s.right+0.5 || b.bottom > s.bottom+0.5}).map(function(t){
+		return t.closest("figure").getAttribute("data-picture")+": "+t.textContent})`)
+	require.Empty(t, cut, "words that stick out of their picture")
 	// Drawn: every picture has a size on the page, inside the page's width.
 	require.True(t, truth(`Array.from(document.querySelectorAll("svg.`+assert.HTMLPicture+`")).every(function(s){
 		var r=s.getBoundingClientRect(); return r.width>100 && r.height>40 && r.right<=document.documentElement.clientWidth})`))
 
 	// The histogram's bars hold every differing tmax cell.
-	require.Equal(t, differing, num(`Array.from(document.querySelectorAll('[data-picture="histogram"] rect.ps-bar')).reduce(function(n,b){
+	require.Equal(t, differing, num(`Array.from(document.querySelectorAll('[data-picture="histogram"][data-column="tmax"] rect.ps-bar')).reduce(function(n,b){
 		return n+parseInt(b.querySelector("title").textContent.split(": ")[1])},0)`))
 	// The scatter: one point per differing cell, the diagonal, the band;
 	// every point inside the plot and on the side of the diagonal its
 	// values say (got above want: above the line).
-	require.Equal(t, differing, num(`document.querySelectorAll('[data-picture="scatter"] circle.ps-pt').length`))
-	require.Equal(t, 1, num(`document.querySelectorAll('[data-picture="scatter"] line.ps-diag').length`))
-	require.Equal(t, 1, num(`document.querySelectorAll('[data-picture="scatter"] polygon.ps-band').length`))
+	require.Equal(t, differing, num(`document.querySelectorAll('[data-picture="scatter"][data-column="tmax"] circle.ps-pt').length`))
+	require.Equal(t, 1, num(`document.querySelectorAll('[data-picture="scatter"][data-column="tmax"] line.ps-diag').length`))
+	require.Equal(t, 1, num(`document.querySelectorAll('[data-picture="scatter"][data-column="tmax"] polygon.ps-band').length`))
 	require.True(t, truth(`(function(){
-		var svg=document.querySelector('[data-picture="scatter"] svg'), l=svg.querySelector("line.ps-diag");
+		var svg=document.querySelector('[data-picture="scatter"][data-column="tmax"] svg'), l=svg.querySelector("line.ps-diag");
 		var x1=+l.getAttribute("x1"), y1=+l.getAttribute("y1"), x2=+l.getAttribute("x2"), y2=+l.getAttribute("y2");
 		return Array.from(svg.querySelectorAll("circle.ps-pt")).every(function(c){
 			var m=c.querySelector("title").textContent.match(/want (\S+), got (\S+)/), w=+m[1], g=+m[2];
@@ -198,9 +222,43 @@ func TestDiffPagePicturesInBrowser(t *testing.T) {
 	// The band is drawn around the diagonal: it contains the diagonal's
 	// middle point.
 	require.True(t, truth(`(function(){
-		var svg=document.querySelector('[data-picture="scatter"] svg'), l=svg.querySelector("line.ps-diag"), b=svg.querySelector("polygon.ps-band");
+		var svg=document.querySelector('[data-picture="scatter"][data-column="tmax"] svg'), l=svg.querySelector("line.ps-diag"), b=svg.querySelector("polygon.ps-band");
 		var p=svg.createSVGPoint(); p.x=(+l.getAttribute("x1")+ +l.getAttribute("x2"))/2; p.y=(+l.getAttribute("y1")+ +l.getAttribute("y2"))/2;
 		return b.isPointInFill(p)})()`), "the tolerance band lies along got = want")
+
+	// The rain histogram, on a log scale: its bars hold every differing
+	// rain cell, one bar per decade that has any; the decades where got is
+	// below want stand left of those where it is above, in want's colour,
+	// the others in got's; the axis says the scale.
+	logBars := `document.querySelectorAll('[data-picture="histogram"][data-column="rain"] rect.ps-bar')`
+	require.Equal(t, rainDiffering, num(`Array.from(`+logBars+`).reduce(function(n,b){
+		return n+parseInt(b.querySelector("title").textContent.split(": ")[1])},0)`))
+	nonEmpty := 0
+	for _, b := range rain.Bins {
+		if b.Count > 0 {
+			nonEmpty++
+		}
+	}
+	require.Equal(t, nonEmpty, num(logBars+`.length`))
+	require.True(t, truth(`(function(){
+		var bars=Array.from(`+logBars+`), below=[], above=[];
+		bars.forEach(function(b){(/ below /.test(b.querySelector("title").textContent)?below:above).push(b)});
+		if(!below.length||!above.length) return false;
+		var maxBelow=Math.max.apply(null,below.map(function(b){return +b.getAttribute("x")}));
+		var minAbove=Math.min.apply(null,above.map(function(b){return +b.getAttribute("x")}));
+		var fills=function(xs){return new Set(xs.map(function(b){return b.getAttribute("fill")}))};
+		return maxBelow<minAbove && fills(below).size===1 && fills(above).size===1 && !fills(above).has(below[0].getAttribute("fill"))})()`),
+		"decades below zero on the left, above on the right, each side in its colour")
+	require.True(t, truth(`Array.from(document.querySelectorAll('[data-picture="histogram"][data-column="rain"] svg text')).some(function(t){
+		return t.textContent.indexOf("log scale")>=0})`))
+	require.True(t, truth(`(function(){
+		var svg=document.querySelector('[data-picture="histogram"][data-column="rain"] svg'), z=svg.querySelectorAll("line.ps-zero");
+		if(z.length!==1) return false;
+		var x=+z[0].getAttribute("x1");
+		return Array.from(svg.querySelectorAll("rect.ps-bar")).every(function(b){
+			var below=/ below /.test(b.querySelector("title").textContent), bx=+b.getAttribute("x"), bw=+b.getAttribute("width");
+			return below ? bx+bw<=x+0.01 : bx>=x-0.01})})()`), "zero divides the decades below from those above")
+	require.Equal(t, rainDiffering, num(`document.querySelectorAll('[data-picture="scatter"][data-column="rain"] circle.ps-pt').length`))
 
 	// The strip: the changed tmax rows (Source, Verger) are late in the key
 	// order, the missing Mas rows in the middle, the extra Ruche row after

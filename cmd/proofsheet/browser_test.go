@@ -144,6 +144,7 @@ func TestReviewPageInBrowser(t *testing.T) {
 	require.Zero(t, facts.injected, "no img, svg or iframe element from cell text")
 	require.Positive(t, facts.pictures, "the changed tables have pictures")
 	require.Zero(t, facts.picturesInCells, "no picture comes from a cell")
+	require.Empty(t, facts.wordsCut, "no word sticks out of its picture")
 	require.Zero(t, facts.handlers, "no inline event handler attribute")
 	require.True(t, facts.hostileShown, "hostile text shows as text")
 	require.Equal(t, 8, facts.sectionsBefore)
@@ -161,6 +162,7 @@ func TestReviewPageInBrowser(t *testing.T) {
 type pageFacts struct {
 	changedCells, scripts, injected, handlers       int
 	pictures, picturesInCells                       int
+	wordsCut                                        []string
 	pwnedUndefined, hostileShown, fitsWidth         bool
 	sectionsBefore, sectionsFiltered, sectionsAgain int
 }
@@ -208,6 +210,12 @@ func openInBrowser(t *testing.T, page string) ([]byte, pageFacts) {
 	f.injected = num(`document.querySelectorAll("img, svg:not(.` + assert.HTMLPicture + `), iframe, object, embed").length`)
 	f.pictures = num(`document.querySelectorAll("figure.ps-figure > svg.` + assert.HTMLPicture + `").length`)
 	f.picturesInCells = num(`document.querySelectorAll("td svg, th svg").length`)
+	words, err := chromedp.Run(bctx, chromedp.Evaluate[[]string](`Array.from(document.querySelectorAll("svg.`+assert.HTMLPicture+` text")).filter(function(t){
+		var b=t.getBoundingClientRect(), s=t.ownerSVGElement.getBoundingClientRect();
+		return b.left < s.left-0.5 || b.top < s.top-0.5 || b.right > s.right+0.5 || b.bottom > s.bottom+0.5}).map(function(t){
+		return t.closest("figure").getAttribute("data-picture")+": "+t.textContent})`))
+	require.NoError(t, err)
+	f.wordsCut = words
 	f.handlers = num(`Array.from(document.querySelectorAll("*")).filter(function(e){return Array.from(e.attributes).some(function(a){return a.name.indexOf("on")===0})}).length`)
 	f.hostileShown = truth(`Array.from(document.querySelectorAll("td.` + assert.HTMLChangedCell + ` ins")).some(function(e){return e.textContent.indexOf("<script>window.__pwned=1</script>")>=0})`)
 	f.fitsWidth = truth(`document.documentElement.scrollWidth <= document.documentElement.clientWidth`)
