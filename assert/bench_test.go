@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/rand/v2"
 	"runtime"
+	"runtime/debug"
 	"sync"
 	"sync/atomic"
 	"testing"
@@ -178,6 +179,49 @@ func race(b *testing.B, baseName string, base func(), otherName string, other fu
 	b.ReportMetric(float64(cb.Nanoseconds())/float64(b.N)/1e6, "cpu-ms-"+baseName)
 	b.ReportMetric(float64(co.Nanoseconds())/float64(b.N)/1e6, "cpu-ms-"+otherName)
 	b.ReportMetric(float64(to)/float64(tb), ratio)
+}
+
+// raceHeap is race for work that needs scratch memory, run two ways in
+// each iteration, untimed preparation before each side:
+//
+//   - warm: runtime.GC() first, so that the scratch of earlier runs is
+//     free heap again and is reused (a process that compares many tables);
+//   - cold: debug.FreeOSMemory() first, so that every page of scratch is
+//     fresh from the operating system and faulted in (a process that
+//     compares once).
+//
+// It reports each side's wall and CPU milliseconds and page faults, warm
+// and cold, and the ratios other/base under ratio and ratio+"-cold".
+func raceHeap(b *testing.B, baseName string, base func(), otherName string, other func(), ratio string) {
+	type side struct {
+		wall, cpu time.Duration
+		faults    int64
+	}
+	var sides [2][2]side // [warm, cold][base, other]
+	run := func(s *side, prep, f func()) {
+		prep()
+		f0, c0 := pageFaults(), cpuTime()
+		s.wall += elapsed(f)
+		s.cpu += cpuTime() - c0
+		s.faults += pageFaults() - f0
+	}
+	for b.Loop() {
+		for m, prep := range []func(){runtime.GC, debug.FreeOSMemory} {
+			run(&sides[m][0], prep, base)
+			run(&sides[m][1], prep, other)
+		}
+	}
+	n := float64(b.N)
+	for m, mode := range []string{"", "-cold"} {
+		for k, name := range []string{baseName, otherName} {
+			s := sides[m][k]
+			b.ReportMetric(float64(s.wall.Nanoseconds())/n/1e6, "ms-"+name+mode)
+			b.ReportMetric(float64(s.cpu.Nanoseconds())/n/1e6, "cpu-ms-"+name+mode)
+			b.ReportMetric(float64(s.faults)/n, "faults-"+name+mode)
+		}
+		b.ReportMetric(float64(sides[m][1].wall)/float64(sides[m][0].wall), ratio+mode)
+		b.ReportMetric(float64(sides[m][1].cpu)/float64(sides[m][0].cpu), "cpu-"+ratio+mode)
+	}
 }
 
 // timed runs f and adds its wall-clock and CPU time to *wall and *cpu.

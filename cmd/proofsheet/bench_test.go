@@ -154,6 +154,9 @@ func BenchmarkChanges50(b *testing.B) {
 //
 //	/usr/bin/time -v proofsheet diff --quiet DIR/big-want.parquet DIR/big-got.parquet
 //	/usr/bin/time -v proofsheet diff --quiet --max-cells -1 --format json --out /tmp/d.json DIR/want.parquet DIR/shuffled.parquet
+//
+// and the peer, Arrow's own Parquet reader holding both tables
+// (TestArrowReadsBoth in fixtures/parquet).
 func TestWriteMemoryBenchFiles(t *testing.T) {
 	dir := os.Getenv("PROOFSHEET_MEMORY_FILES")
 	if dir == "" {
