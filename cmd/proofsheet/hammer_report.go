@@ -20,8 +20,8 @@ func (h *hammerRun) checkNames() string {
 // headline says what ran: "proofsheet hammer: 37 of 100 samples of
 // uploads.schema (seed 7), checks runs, same-on-plain".
 func (h *hammerRun) headline() string {
-	return fmt.Sprintf("proofsheet hammer: %d of %d samples of %s (seed %d, %s); checks: %s",
-		h.ran, h.samples, h.schemaFile, h.seed, h.seedFrom, h.checkNames())
+	return fmt.Sprintf("proofsheet hammer: %d of %s of %s (seed %d, %s); checks: %s",
+		h.ran, pluralWord(h.samples, "sample", "samples"), h.schemaFile, h.seed, h.seedFrom, h.checkNames())
 }
 
 // outcome is the one-line result.
@@ -33,8 +33,9 @@ func (h *hammerRun) outcome() string {
 		f := h.failure
 		return fmt.Sprintf("FAILED %s on sample %d: %s", f.verdict.check.spec, f.sample.index+1, f.verdict.line)
 	}
-	return fmt.Sprintf("All held: %d samples, %s, %d runs of the programs in %s.",
-		h.ran, pluralWord(len(h.checks), "check", "checks"), h.judge.rn.runs.Load(), time.Since(h.start).Round(10*time.Millisecond))
+	return fmt.Sprintf("All held: %s, %s, %s of the programs in %s.",
+		pluralWord(h.ran, "sample", "samples"), pluralWord(len(h.checks), "check", "checks"),
+		pluralWord(int(h.judge.rn.runs.Load()), "run", "runs"), time.Since(h.start).Round(10*time.Millisecond))
 }
 
 // report writes the report in a format: text, markdown or json.

@@ -64,7 +64,11 @@ func showBytes(data []byte, enc fixtures.Encoding, maxLines int) string {
 	marked := false
 	for i, l := range lines {
 		if i == maxLines {
-			fmt.Fprintf(&body, "%*s   … %d more lines\n", width, "", len(lines)-i)
+			more := "lines"
+			if len(lines)-i == 1 {
+				more = "line"
+			}
+			fmt.Fprintf(&body, "%*s   … %d more %s\n", width, "", len(lines)-i, more)
 			break
 		}
 		text, mark := strings.TrimSuffix(l, "\n"), " "

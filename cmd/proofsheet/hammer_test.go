@@ -454,5 +454,6 @@ func TestShowBytes(t *testing.T) {
 	got = showBytes([]byte("house\nK\xe6reby\n"), fixtures.EncodingWindows1252, 10)
 	require.Equal(t, "13 bytes, Windows-1252, shown decoded; line ends: 2 LF\n1  house\n2  Kæreby\n", got)
 	got = showBytes([]byte("a\nb\nc\n"), fixtures.EncodingUTF8, 2)
-	require.Contains(t, got, "… 1 more lines")
+	require.Contains(t, got, "… 1 more line\n", "one line, not one lines")
+	require.Contains(t, showBytes([]byte("a\nb\nc\nd\n"), fixtures.EncodingUTF8, 2), "… 2 more lines\n")
 }
