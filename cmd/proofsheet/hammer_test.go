@@ -305,6 +305,16 @@ func TestHammerChecks(t *testing.T) {
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.Equal(t, "outputs differ", rep.Failure.Class)
 
+	// An output that stamps each run: a second run differs in that column
+	// only, which --ignore leaves out of the comparison.
+	stamped := `printf 'house,rows,run\nBellecôte,%s,%s\n' "$(wc -l < {in})" "$$" > {out}`
+	few := []string{"--schema", "uploads.schema", "--samples", "3", "--rows", "5", "--seed", "9", "--check", "repeatable", "--run", stamped}
+	rep, r = runHammerJSON(t, dir, few...)
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	require.Equal(t, "outputs differ", rep.Failure.Class)
+	rep, r = runHammerJSON(t, dir, append(few, "--ignore", "run")...)
+	require.Equal(t, exitSame, r.code, "%s\n%s", r.stdout, r.stderr)
+
 	// A failing program: exit status, stderr trimmed, runs fails.
 	rep, r = runHammerJSON(t, dir, append([]string{"--run", `grep -q ERR {in} && { echo "cannot read ERR" >&2; exit 3; }; cp {in} {out}`}, base...)...)
 	require.Equal(t, exitDiffers, r.code, r.stderr)
