@@ -197,7 +197,7 @@ func changesJUnit(rv *golden.Review, took time.Duration) *junitSuite {
 		tc := junitCase{name: f.Path, class: "proofsheet.changes." + string(f.Kind)}
 		if f.Status != golden.ReviewUnchanged {
 			tc.failure = f.Status.Label() + ": " + f.Summary()
-			tc.detail = (&golden.Review{Title: f.Path, Against: rv.Against, Files: []golden.FileReview{f}}).Text()
+			tc.detail = (&golden.Review{Title: f.Path, Against: rv.Against, Files: []golden.FileReview{f}}).TextWith(assert.TextStyle{Flags: true})
 		}
 		s.cases = append(s.cases, tc)
 	}

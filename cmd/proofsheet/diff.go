@@ -231,7 +231,7 @@ func runDiff(e *env, c *command, args []string) int {
 			tc := junitCase{name: f.Path, class: "proofsheet.diff"}
 			switch f.Status {
 			case fileDiffers:
-				tc.detail = f.Diff.TextWith(assert.TextStyle{})
+				tc.detail = f.Diff.TextWith(assert.TextStyle{Flags: true})
 				tc.failure = tc.detail
 			case fileOnlyWant, fileOnlyGot:
 				tc.failure = f.Path + ": " + strings.ReplaceAll(string(f.Status), "-", " ")
@@ -322,7 +322,7 @@ func runDiff(e *env, c *command, args []string) int {
 	}
 	tc := junitCase{name: files[1] + " against " + files[0], class: "proofsheet.diff", took: time.Since(start)}
 	if !d.Equal() {
-		tc.detail = d.TextWith(assert.TextStyle{})
+		tc.detail = d.TextWith(assert.TextStyle{Flags: true})
 		tc.failure = tc.detail
 	}
 	suite.cases, suite.took = []junitCase{tc}, time.Since(start)

@@ -458,6 +458,15 @@ func goldenHeadline(items []*goldenItem, update bool) string {
 	return fmt.Sprintf("%s: %s", pluralWord(len(items), "output", "outputs"), strings.Join(parts, ", "))
 }
 
+// detail is the readable difference of a changed output: for a table,
+// the Diff's text with its fixes named as this command's flags.
+func (it *goldenItem) detail() string {
+	if it.out.Diff != nil {
+		return it.out.Diff.TextWith(assert.TextStyle{Flags: true})
+	}
+	return it.out.Detail
+}
+
 func pluralWord(n int, one, many string) string {
 	if n == 1 {
 		return "1 " + one
@@ -491,7 +500,7 @@ func goldenReport(items []*goldenItem, update bool, format string) string {
 			fmt.Fprintf(&b, "\nnote: %s: %s\n", it.file, it.out.Note)
 		}
 		if it.out != nil && it.out.Status == golden.StatusChanged {
-			fmt.Fprintf(&b, "\n== %s differs from %s (want):\n%s\n", it.file, it.goldenPath(), strings.TrimRight(it.out.Detail, "\n"))
+			fmt.Fprintf(&b, "\n== %s differs from %s (want):\n%s\n", it.file, it.goldenPath(), strings.TrimRight(it.detail(), "\n"))
 		}
 	}
 	return b.String()
@@ -571,7 +580,7 @@ func goldenJUnit(items []*goldenItem, update bool, took time.Duration) *junitSui
 			tc.errMsg = it.goldenPath() + " does not exist"
 		case it.out.Status == golden.StatusChanged:
 			tc.failure = it.file + " differs from " + it.goldenPath()
-			tc.detail = it.out.Detail
+			tc.detail = it.detail()
 		}
 		s.cases = append(s.cases, tc)
 	}

@@ -236,3 +236,29 @@ func TestUpdateCommandLine(t *testing.T) {
 	require.Equal(t, "proofsheet golden --update --loose-types --store 'gold en' --strict=bare-quote --tol '*=abs:1e-9' --tol tmax=rel:0.1 --types kept=int64 --types day=date out/daily.csv 'out/my notes.txt'",
 		updateCommandLine(fs, []string{"out/daily.csv", "out/my notes.txt"}))
 }
+
+// The command names the fixes of hints as its own flags, in its report
+// and in the JUnit failure, never as Go options.
+func TestGoldenHintsNameFlags(t *testing.T) {
+	stored, err := golden.EncodeTableRules(fixtures.MustParse(t, `
+		house:string | day:date   | tmax:float64
+		Étang        | 2026-04-01 | 21.5
+		Les Pins     | 2026-04-01 | 18.25
+		Mas          | 2026-04-02 | 17`), assert.Rules{Match: assert.MatchByPosition})
+	require.NoError(t, err)
+	dir := writeFiles(t, map[string]string{
+		"out/daily.csv":                  "house,day,tmax\nMas,2026-04-02,17\nÉtang,2026-04-01,21.5\nLes Pins,2026-04-01,18.25\n",
+		"testdata/golden/daily.gold.tbl": string(stored),
+	})
+	junit := filepath.Join(dir, "golden.xml")
+	r := runBin(t, dir, goldenEnv, "golden", "--junit", junit, "out/daily.csv")
+	require.Equal(t, exitDiffers, r.code, r.stdout+r.stderr)
+	require.Contains(t, r.stdout, "the tables hold the same rows in another order")
+	require.Contains(t, r.stdout, "fix: --key house or --any-row-order")
+	require.NotContains(t, r.stdout, "AnyRowOrder()")
+	doc := readJUnit(t, junit)
+	require.Contains(t, doc.Suites[0].Cases[0].Failure.Text, "fix: --key house or --any-row-order")
+	// The fix works: with the flag the output is equal.
+	r = runBin(t, dir, goldenEnv, "golden", "--key", "house", "out/daily.csv")
+	require.Equal(t, exitSame, r.code, r.stdout+r.stderr)
+}

@@ -184,7 +184,7 @@ func (j *judge) judge(ctx context.Context, s *sample, c *hammerCheck, base *runR
 				"idempotent":    "the output fed back in gives another output",
 				"repeatable":    "a second run on the same input gives another output",
 			}[c.name]
-			v.detail = d.TextWith(assert.TextStyle{})
+			v.detail = d.TextWith(assert.TextStyle{Flags: true})
 		}
 	case "agrees":
 		ref := j.rn.run(ctx, c.ref, s.input())
@@ -199,7 +199,7 @@ func (j *judge) judge(ctx context.Context, s *sample, c *hammerCheck, base *runR
 			d.WantName, d.GotName = "reference", "program"
 			v.held, v.class, v.diff = false, "outputs differ", d
 			v.line = "the program's output differs from the reference's"
-			v.detail = d.TextWith(assert.TextStyle{})
+			v.detail = d.TextWith(assert.TextStyle{Flags: true})
 		}
 	case "no-nulls":
 		for _, col := range c.cols {
