@@ -86,9 +86,7 @@ type editStyle struct {
 // markers. ok is false when the strings share too little for an edit to
 // help (then both are best read whole).
 func textEdit(want, got string, st editStyle) (line string, ok bool) {
-	dmp := diffmatchpatch.New()
-	diffs := dmp.DiffMain(keepBytes(want), keepBytes(got), false)
-	diffs = dmp.DiffCleanupSemantic(diffs)
+	diffs := charDiff(keepBytes(want), keepBytes(got))
 	common := 0
 	for _, d := range diffs {
 		if d.Type == diffmatchpatch.DiffEqual {
@@ -118,15 +116,97 @@ func textEdit(want, got string, st editStyle) (line string, ok bool) {
 		i--
 		b.WriteString(editOpen)
 		if del != "" {
-			b.WriteString(st.want + visible(del, true, true, true) + st.reset)
+			b.WriteString(st.want + visible(elideChange(del), true, true, true) + st.reset)
 		}
 		b.WriteString(editArrow)
 		if ins != "" {
-			b.WriteString(st.got + visible(ins, true, true, true) + st.reset)
+			b.WriteString(st.got + visible(elideChange(ins), true, true, true) + st.reset)
 		}
 		b.WriteString(editClose)
 	}
 	return b.String(), true
+}
+
+// editMiddle bounds, in bytes of both sides together, the changed middle
+// of two texts (what is left between their common start and end) that
+// is diffed character by character. A character diff costs time that
+// grows with the product of the lengths: two differing cells of 10,000
+// characters took a second each (and then gave up at the library's time
+// limit, so the edit also depended on the machine's speed). A longer
+// middle is shown as one change.
+const editMiddle = 512
+
+// charDiff returns the character edit from want to got: their common
+// start and end found directly, the middle between diffed by
+// diffmatchpatch (without a time limit, so the result never depends on
+// the machine) when it is short, else taken as one deletion and one
+// insertion.
+func charDiff(want, got string) []diffmatchpatch.Diff {
+	p := commonPrefix(want, got)
+	sfx := commonSuffix(want[p:], got[p:])
+	mw, mg := want[p:len(want)-sfx], got[p:len(got)-sfx]
+	var diffs []diffmatchpatch.Diff
+	if p > 0 {
+		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffEqual, Text: want[:p]})
+	}
+	if len(mw)+len(mg) <= editMiddle {
+		dmp := diffmatchpatch.New()
+		dmp.DiffTimeout = 0
+		diffs = append(diffs, dmp.DiffMain(mw, mg, false)...)
+	} else {
+		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffDelete, Text: mw}, diffmatchpatch.Diff{Type: diffmatchpatch.DiffInsert, Text: mg})
+	}
+	if sfx > 0 {
+		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffEqual, Text: want[len(want)-sfx:]})
+	}
+	if len(mw)+len(mg) <= editMiddle {
+		dmp := diffmatchpatch.New()
+		diffs = dmp.DiffCleanupSemantic(dmp.DiffCleanupMerge(diffs))
+	}
+	return diffs
+}
+
+// commonPrefix is the length in bytes of the common start of a and b, on
+// a character boundary.
+func commonPrefix(a, b string) int {
+	n := 0
+	for n < len(a) && n < len(b) && a[n] == b[n] {
+		n++
+	}
+	for n > 0 && n < len(a) && !utf8.RuneStart(a[n]) {
+		n--
+	}
+	for n > 0 && n < len(b) && !utf8.RuneStart(b[n]) {
+		n--
+	}
+	return n
+}
+
+// commonSuffix is the length in bytes of the common end of a and b, on a
+// character boundary.
+func commonSuffix(a, b string) int {
+	n := 0
+	for n < len(a) && n < len(b) && a[len(a)-1-n] == b[len(b)-1-n] {
+		n++
+	}
+	for n > 0 && !utf8.RuneStart(a[len(a)-n]) {
+		n--
+	}
+	return n
+}
+
+// maxChange is how many characters of a changed stretch an edit shows;
+// the middle of a longer one is cut to "…".
+const maxChange = 4 * editContext
+
+// elideChange shortens a long changed stretch of an edit, keeping both
+// ends.
+func elideChange(s string) string {
+	if utf8.RuneCountInString(s) <= maxChange {
+		return s
+	}
+	r := []rune(s)
+	return string(r[:maxChange/2]) + "…" + string(r[len(r)-maxChange/2:])
 }
 
 // editContext is how many characters of unchanged text an edit keeps next
