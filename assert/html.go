@@ -1,7 +1,6 @@
 package assert
 
 import (
-	"bufio"
 	"fmt"
 	"html"
 	"io"
@@ -36,7 +35,7 @@ func (d *Diff) WriteHTML(w io.Writer) error {
 	if d == nil {
 		d = &Diff{}
 	}
-	bw := bufio.NewWriterSize(w, 64<<10)
+	bw := renderBuffer(w)
 	h := &htmlWriter{b: bw}
 	h.open("div", "ps-diff", "data-equal", strconv.FormatBool(d.Equal()), "data-cells", strconv.Itoa(d.Cells.Len()))
 	h.elem("p", "ps-verdict", capitalise(d.headline()))

@@ -1,7 +1,6 @@
 package assert
 
 import (
-	"bufio"
 	"bytes"
 	"encoding/json"
 	"fmt"
@@ -101,7 +100,7 @@ func (d *Diff) WriteJSON(w io.Writer) error {
 	}
 	// The object is written field by field in the order of jsonDiff, as
 	// json.MarshalIndent(out, "", "  ") would, with the listings streamed.
-	b := bufio.NewWriterSize(w, 64<<10)
+	b := renderBuffer(w)
 	var err error
 	first := true
 	field := func(name string) {

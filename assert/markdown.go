@@ -1,7 +1,6 @@
 package assert
 
 import (
-	"bufio"
 	"fmt"
 	"io"
 	"strings"
@@ -29,7 +28,7 @@ func (d *Diff) WriteMarkdown(w io.Writer) error {
 	if d == nil {
 		d = &Diff{}
 	}
-	b := bufio.NewWriterSize(w, 64<<10)
+	b := renderBuffer(w)
 	p := func(format string, args ...any) { fmt.Fprintf(b, format, args...) }
 	if d.Equal() {
 		p("**Tables are equal** — %s, %s compared; %s.\n", plural(d.WantRows, "row", "rows"), plural(len(d.Compared), "column", "columns"), strings.TrimPrefix(d.matchLine(), d.sizeLine()))
@@ -213,10 +212,14 @@ func mdCode(s string) string {
 	return fence + pad + s + pad + fence
 }
 
+// mdEscaper escapes the characters Markdown would read as markup. A
+// Replacer is safe for concurrent use, and building one costs more than
+// most of the texts it escapes.
+var mdEscaper = strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "<", "&lt;", ">", "&gt;", "[", `\[`, "]", `\]`, "\n", " ")
+
 // mdEscape escapes text that is not in a code span.
 func mdEscape(s string) string {
-	r := strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "<", "&lt;", ">", "&gt;", "[", `\[`, "]", `\]`, "\n", " ")
-	return r.Replace(s)
+	return mdEscaper.Replace(s)
 }
 
 // shownNames is printable.Name of each name.

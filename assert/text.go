@@ -67,7 +67,7 @@ func (d *Diff) WriteText(w io.Writer, st TextStyle) error {
 	if st.Width <= 0 {
 		st.Width = 100
 	}
-	tw := &textWriter{st: st, out: bufio.NewWriterSize(w, 64<<10)}
+	tw := &textWriter{st: st, out: renderBuffer(w)}
 	for i, l := range wrap(d.headline(), st.Width, 4) {
 		if i == 0 {
 			l = tw.bold(l)
