@@ -1,0 +1,16 @@
+package assert
+
+import (
+	"os"
+	"testing"
+	"time"
+
+	"github.com/proofsheet/proofsheet/internal/fuzzcap"
+)
+
+// TestMain bounds the fuzzer's minimizing of each new input (see
+// internal/fuzzcap): this package's fuzz inputs are kilobytes long.
+func TestMain(m *testing.M) {
+	fuzzcap.LimitMinimize(5 * time.Second)
+	os.Exit(m.Run())
+}
