@@ -130,38 +130,39 @@ func textEdit(want, got string, st editStyle) (line string, ok bool) {
 // editMiddle bounds, in bytes of both sides together, the changed middle
 // of two texts (what is left between their common start and end) that
 // is diffed character by character. A character diff costs time that
-// grows with the product of the lengths: two differing cells of 10,000
-// characters took a second each (and then gave up at the library's time
-// limit, so the edit also depended on the machine's speed). A longer
-// middle is shown as one change.
+// grows with the product of the lengths of the middles: two differing
+// cells of 10,000 characters took a second each (and then gave up at the
+// library's time limit, so the edit also depended on the machine's
+// speed). A longer middle is shown as one change.
 const editMiddle = 512
 
-// charDiff returns the character edit from want to got: their common
-// start and end found directly, the middle between diffed by
-// diffmatchpatch (without a time limit, so the result never depends on
-// the machine) when it is short, else taken as one deletion and one
-// insertion.
+// charDiff returns the character edit from want to got. When the changed
+// middle is short it is diffmatchpatch's semantic edit of the two texts,
+// without a time limit, so the result never depends on the machine (the
+// library trims the common start and end itself, in time linear in their
+// length); else it is the common start, one deletion, one insertion and
+// the common end.
 func charDiff(want, got string) []diffmatchpatch.Diff {
 	p := commonPrefix(want, got)
 	sfx := commonSuffix(want[p:], got[p:])
 	mw, mg := want[p:len(want)-sfx], got[p:len(got)-sfx]
+	if len(mw)+len(mg) <= editMiddle {
+		dmp := diffmatchpatch.New()
+		dmp.DiffTimeout = 0
+		return dmp.DiffCleanupSemantic(dmp.DiffMain(want, got, false))
+	}
 	var diffs []diffmatchpatch.Diff
 	if p > 0 {
 		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffEqual, Text: want[:p]})
 	}
-	if len(mw)+len(mg) <= editMiddle {
-		dmp := diffmatchpatch.New()
-		dmp.DiffTimeout = 0
-		diffs = append(diffs, dmp.DiffMain(mw, mg, false)...)
-	} else {
-		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffDelete, Text: mw}, diffmatchpatch.Diff{Type: diffmatchpatch.DiffInsert, Text: mg})
+	if mw != "" {
+		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffDelete, Text: mw})
+	}
+	if mg != "" {
+		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffInsert, Text: mg})
 	}
 	if sfx > 0 {
 		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffEqual, Text: want[len(want)-sfx:]})
-	}
-	if len(mw)+len(mg) <= editMiddle {
-		dmp := diffmatchpatch.New()
-		diffs = dmp.DiffCleanupSemantic(dmp.DiffCleanupMerge(diffs))
 	}
 	return diffs
 }
