@@ -498,7 +498,11 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 		switch {
 		case !c.MaxAbs.isNull():
 			cs.HasDelta, cs.MaxAbs = true, float64(c.MaxAbs)
-		case c.MaxAbsAt != nil:
+		case c.MaxAbsAt != nil || !c.MaxRel.isNull():
+			// A largest distance written as null beside a place or a
+			// relative distance is an infinity, which JSON cannot
+			// spell (JSON writes a relative distance only with a
+			// distance).
 			cs.HasDelta, cs.MaxAbs = true, math.Inf(1)
 		}
 		switch {
