@@ -50,7 +50,9 @@ func (d *Diff) htmlPictures(h *htmlWriter) {
 		if n.Cells == 0 {
 			continue
 		}
-		d.histogramFigure(h, n)
+		if len(n.Bins) > 0 { // a Diff read from JSON may have none
+			d.histogramFigure(h, n)
+		}
 		d.scatterFigure(h, n)
 	}
 	for _, c := range o.Categories {
