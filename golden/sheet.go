@@ -199,6 +199,7 @@ func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 	info.HasRules = v >= 2
 	// Metadata: "# NAME: VALUE" among the comment lines before the header.
 	gotRows, gotMatch := false, false
+	keysLine := 0
 	for i := 1; rest != ""; i++ {
 		var raw string
 		raw, rest, _ = strings.Cut(rest, "\n")
@@ -220,6 +221,7 @@ func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 			if info.Keys, err = parseKeyList(val); err != nil {
 				return nil, info, at(err)
 			}
+			keysLine = i + 1
 		case k == "rows":
 			n, err := strconv.Atoi(val)
 			if err != nil || n < 0 {
@@ -303,6 +305,13 @@ func DecodeTable(name string, data []byte) (*fixtures.Table, SheetInfo, error) {
 	tb, err := fixtures.ParseFile(name, text)
 	if err != nil {
 		return nil, info, err
+	}
+	// The rows are sorted by the keys, and a check matches by them: a key
+	// the header line does not name could never be stored again.
+	for _, k := range info.Keys {
+		if tb.Column(k) == nil {
+			return nil, info, fmt.Errorf("%s:%d: keys: no column %q in the table", name, keysLine, k)
+		}
 	}
 	if tb.NumRows() != info.Rows {
 		return nil, info, fmt.Errorf("%s: the file says rows: %d but has %s (cut short, a lost merge, or a hand edit that did not fix the count)", name, info.Rows, plural(tb.NumRows(), "row", "rows"))

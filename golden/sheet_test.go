@@ -185,6 +185,10 @@ func TestSheetRefusals(t *testing.T) {
 		{"cut short", strings.Replace(good, "# rows: 1", "# rows: 2", 1), "says rows: 2 but has 1"},
 		{"bad cell", strings.Replace(good, "\n1\n", "\nx\n", 1), ":6:"},
 		{"bad keys", strings.Replace(good, "# keys: -", `# keys: "a`, 1), "closing quote"},
+		// Found by FuzzDecodeTable: such a file read, but could never be
+		// stored again (its rows are sorted by the keys).
+		{"key not a column", strings.Replace(strings.Replace(good, "# keys: -", `# keys: "day x"`, 1), "by position", "by key", 1), `f.gold.tbl:2: keys: no column "day x" in the table`},
+		{"version 1 key not a column", "# proofsheet sheet v1\n# keys: b\n# rows: 1\na:int64\n1\n", `f.gold.tbl:2: keys: no column "b" in the table`},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
