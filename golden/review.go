@@ -1,6 +1,7 @@
 package golden
 
 import (
+	"errors"
 	"fmt"
 	"os"
 	"slices"
@@ -531,7 +532,7 @@ func reviewRecord(path string, r Record) FileReview {
 	f := FileReview{Path: path, Kind: kind, Test: r.Test, OldRows: -1, NewRows: -1, Detail: r.Detail}
 	switch r.Status {
 	case StatusNew:
-		if data, err := os.ReadFile(r.File); err == nil && r.File != "" {
+		if data, err := readRegular(r.File); err == nil {
 			fr := ReviewChange(FileChange{Path: path, New: data, NewExists: true})
 			fr.Test, fr.Detail = r.Test, r.Detail
 			return fr
@@ -559,4 +560,22 @@ func reviewRecord(path string, r Record) FileReview {
 		}
 	}
 	return f
+}
+
+// readRegular reads the file a run record names, refusing anything but a
+// regular file: a record names its file as a test wrote it, and reading a
+// device or a pipe named there (/dev/zero, a FIFO) would never end.
+func readRegular(path string) ([]byte, error) {
+	if path == "" {
+		return nil, errors.New("no file named")
+	}
+	// Stat before opening: opening a FIFO waits for a writer.
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	if !fi.Mode().IsRegular() {
+		return nil, fmt.Errorf("%s is not a regular file", path)
+	}
+	return os.ReadFile(path)
 }

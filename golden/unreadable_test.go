@@ -1,6 +1,7 @@
 package golden
 
 import (
+	"os"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -47,4 +48,20 @@ func TestReviewEscapesNames(t *testing.T) {
 		require.Contains(t, out, `"v\x1b]0;t\a"`, name)
 		require.Contains(t, out, `"testdata/x\x1b[8m.gold.tbl"`, name)
 	}
+}
+
+// TestReviewRecordsReadOnlyRegularFiles: a record of a new file whose
+// path names a device is summarised without reading it (reading
+// /dev/zero never ends).
+func TestReviewRecordsReadOnlyRegularFiles(t *testing.T) {
+	if _, err := os.Stat("/dev/zero"); err != nil {
+		t.Skip("no /dev/zero here")
+	}
+	rv := ReviewRecords([]Record{{Test: "T", Name: "z", Kind: KindText, Status: StatusNew, Path: "testdata/z.gold.txt", File: "/dev/zero"}})
+	require.Len(t, rv.Files, 1)
+	require.Equal(t, ReviewNew, rv.Files[0].Status)
+	_, err := readRegular("/dev/zero")
+	require.ErrorContains(t, err, "/dev/zero is not a regular file")
+	_, err = readRegular("")
+	require.Error(t, err)
 }
