@@ -11,6 +11,6 @@ import (
 // TestMain bounds the fuzzer's minimizing of each new input (see
 // internal/fuzzcap): this package's fuzz inputs are kilobytes long.
 func TestMain(m *testing.M) {
-	fuzzcap.LimitMinimize(5 * time.Second)
+	fuzzcap.LimitMinimize(3 * time.Second)
 	os.Exit(m.Run())
 }

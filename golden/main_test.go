@@ -4,11 +4,19 @@ import (
 	"encoding/json"
 	"os"
 	"testing"
+	"time"
+
+	"github.com/proofsheet/proofsheet/internal/fuzzcap"
 )
 
 // The package's own tests use RunTests, so PROOFSHEET_STALE=list go test
 // ./golden lists golden files here that no test uses.
-func TestMain(m *testing.M) { os.Exit(RunTests(m)) }
+// It also bounds the fuzzer's minimizing of each new input (see
+// internal/fuzzcap): run records and golden files are kilobytes long.
+func TestMain(m *testing.M) {
+	fuzzcap.LimitMinimize(3 * time.Second)
+	os.Exit(RunTests(m))
+}
 
 // The package's own golden files: a sample of the stored table format with
 // every column kind, a table check, and the run record layout the CLI

@@ -122,23 +122,41 @@ func ReadRecords(dir string) ([]Record, error) {
 		if err != nil {
 			return nil, fmt.Errorf("golden: reading records: %w", err)
 		}
-		sc := bufio.NewScanner(bytes.NewReader(data))
-		sc.Buffer(nil, len(data)+1)
-		for n := 1; sc.Scan(); n++ {
-			line := bytes.TrimSpace(sc.Bytes())
-			if len(line) == 0 {
-				continue
-			}
-			var r Record
-			if err := json.Unmarshal(line, &r); err != nil {
-				return nil, fmt.Errorf("golden: %s:%d: not a run record: %w", file, n, err)
-			}
-			all = append(all, r)
+		recs, err := parseRecords(file, data)
+		if err != nil {
+			return nil, err
 		}
-		if err := sc.Err(); err != nil {
-			return nil, fmt.Errorf("golden: %s: %w", file, err)
-		}
+		all = append(all, recs...)
 	}
+	sortRecords(all)
+	return all, nil
+}
+
+// parseRecords reads the records of one run record file, named file in
+// errors.
+func parseRecords(file string, data []byte) ([]Record, error) {
+	var all []Record
+	sc := bufio.NewScanner(bytes.NewReader(data))
+	sc.Buffer(nil, len(data)+1)
+	for n := 1; sc.Scan(); n++ {
+		line := bytes.TrimSpace(sc.Bytes())
+		if len(line) == 0 {
+			continue
+		}
+		var r Record
+		if err := json.Unmarshal(line, &r); err != nil {
+			return nil, fmt.Errorf("golden: %s:%d: not a run record: %w", file, n, err)
+		}
+		all = append(all, r)
+	}
+	if err := sc.Err(); err != nil {
+		return nil, fmt.Errorf("golden: %s: %w", file, err)
+	}
+	return all, nil
+}
+
+// sortRecords puts records in the order ReadRecords returns them.
+func sortRecords(all []Record) {
 	slices.SortStableFunc(all, func(a, b Record) int {
 		if c := strings.Compare(a.Path, b.Path); c != 0 {
 			return c
@@ -148,5 +166,4 @@ func ReadRecords(dir string) ([]Record, error) {
 		}
 		return strings.Compare(a.Test, b.Test)
 	})
-	return all, nil
 }

@@ -12,7 +12,7 @@
 // Typical use, in the test files of a package with such a target:
 //
 //	func TestMain(m *testing.M) {
-//		fuzzcap.LimitMinimize(5 * time.Second)
+//		fuzzcap.LimitMinimize(3 * time.Second)
 //		os.Exit(m.Run())
 //	}
 //
