@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/printable"
 )
 
 // JSON writes the Diff as an indented JSON object, for tools. The fields
@@ -465,7 +466,12 @@ func orEmpty[T any](s []T) []T {
 // values (Cell.Value) are restored from their text for bool, int64,
 // float64 and text cells; date, timestamp and decimal cells keep only
 // their text. A delta written as null (an infinity) comes back as +Inf
-// where the column names a row for it.
+// where the column names a row for it. Text that would not show as
+// itself (control characters such as a terminal's escape sequences,
+// bidirectional controls, bytes that are not UTF-8) is never taken raw:
+// cell spellings and keys are quoted as Compare quotes them, and
+// problems, hints, rules and types have such characters escaped (\x1b),
+// so a renderer cannot write them to a terminal or a page.
 func DiffFromJSON(b []byte) (*Diff, error) {
 	var j jsonDiff
 	if err := json.Unmarshal(b, &j); err != nil {
@@ -473,7 +479,7 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 	}
 	d := &Diff{
 		WantRows: j.WantRows, GotRows: j.GotRows, Match: MatchMode(j.Match), Keys: j.Keys,
-		WantColumns: j.WantColumns, GotColumns: j.GotColumns, Compared: j.Compared, Problems: j.Problems,
+		WantColumns: j.WantColumns, GotColumns: j.GotColumns, Compared: j.Compared, Problems: shownTexts(j.Problems),
 		Missing:        RowList{Count: j.MissingRows, Rows: ListOf(rowsFromJSON(j.Missing)...)},
 		Extra:          RowList{Count: j.ExtraRows, Rows: ListOf(rowsFromJSON(j.Extra)...)},
 		Duplicates:     DuplicateList{WantKeys: j.DuplicateKeys.Want, GotKeys: j.DuplicateKeys.Got},
@@ -483,10 +489,10 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 		d.Match = MatchByPosition
 	}
 	for _, s := range j.Schema {
-		d.Schema = append(d.Schema, SchemaChange{Column: s.Column, Change: ChangeKind(s.Change), Want: s.Want, Got: s.Got})
+		d.Schema = append(d.Schema, SchemaChange{Column: s.Column, Change: ChangeKind(s.Change), Want: printable.Text(s.Want), Got: printable.Text(s.Got)})
 	}
 	for _, c := range j.Columns {
-		cs := ColumnSummary{Name: c.Name, Rule: c.Rule, Differing: c.Differing,
+		cs := ColumnSummary{Name: c.Name, Rule: printable.Text(c.Rule), Differing: c.Differing,
 			MaxAbsAt: rowFromJSON(c.MaxAbsAt), MaxRelAt: rowFromJSON(c.MaxRelAt)}
 		var err error
 		if cs.WantType, err = fixtures.ParseType(c.WantType); err != nil {
@@ -539,12 +545,12 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 	}
 	d.Cells = ListOf(cells...)
 	for _, k := range j.Duplicates {
-		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: k.Key, Count: k.Count, Rows: rowIndexes(k.Rows)})
+		d.Duplicates.Keys = append(d.Duplicates.Keys, DuplicateKey{Side: Side(k.Side), Key: shownCells(k.Key), Count: k.Count, Rows: rowIndexes(k.Rows)})
 	}
 	d.Overview = overviewFromJSON(j.Overview)
 	for _, jh := range j.Hints {
-		h := Hint{Kind: HintKind(jh.Kind), Column: jh.Column, Text: jh.Text, Option: jh.Option, Flag: jh.Flag,
-			Name: jh.Name, Suggest: jh.Suggest, Count: jh.Count}
+		h := Hint{Kind: HintKind(jh.Kind), Column: jh.Column, Text: printable.Text(jh.Text), Option: printable.Text(jh.Option), Flag: printable.Text(jh.Flag),
+			Name: printable.Text(jh.Name), Suggest: printable.Text(jh.Suggest), Count: jh.Count}
 		if jh.Factor != nil {
 			h.Factor = float64(*jh.Factor)
 		}
@@ -553,7 +559,7 @@ func DiffFromJSON(b []byte) (*Diff, error) {
 		}
 		for i := range jh.Pairs {
 			p := &jh.Pairs[i]
-			h.Pairs = append(h.Pairs, NearMatch{Missing: rowFromJSON(&p.Missing), Extra: rowFromJSON(&p.Extra), Why: p.Why})
+			h.Pairs = append(h.Pairs, NearMatch{Missing: rowFromJSON(&p.Missing), Extra: rowFromJSON(&p.Extra), Why: shownTexts(p.Why)})
 		}
 		d.Hints = append(d.Hints, h)
 	}
@@ -582,7 +588,7 @@ func rowFromJSON(r *jsonRow) RowRef {
 	if r.Got != nil {
 		out.Got = *r.Got - 1
 	}
-	out.Key, out.Cells = r.Key, r.Cells
+	out.Key, out.Cells = shownCells(r.Key), shownCells(r.Cells)
 	return out
 }
 
@@ -594,9 +600,38 @@ func rowsFromJSON(rs []jsonRow) []RowRef {
 	return out
 }
 
-// cellFromJSON restores a cell from its literal spelling.
+// shownTexts is printable.Text of each sentence: text read from JSON may
+// hold characters that a Diff made by Compare never shows raw (a
+// terminal would obey an escape sequence), and every renderer writes
+// these fields as they are.
+func shownTexts(ss []string) []string {
+	if ss == nil {
+		return nil
+	}
+	out := make([]string, len(ss))
+	for i, s := range ss {
+		out[i] = printable.Text(s)
+	}
+	return out
+}
+
+// shownCells is printable.Name of each cell spelling: a spelling that
+// does not show as itself is quoted, as Compare's spellings are.
+func shownCells(ss []string) []string {
+	if ss == nil {
+		return nil
+	}
+	out := make([]string, len(ss))
+	for i, s := range ss {
+		out[i] = printable.Name(s)
+	}
+	return out
+}
+
+// cellFromJSON restores a cell from its literal spelling; a spelling
+// that does not show as itself is quoted (its value stays the text).
 func cellFromJSON(c jsonCellText) (Cell, error) {
-	out := Cell{Text: c.Text, Null: c.Null}
+	out := Cell{Text: printable.Name(c.Text), Null: c.Null}
 	if err := out.Kind.UnmarshalText([]byte(c.Kind)); err != nil {
 		return Cell{}, fmt.Errorf("assert: cell in diff JSON: %w", err)
 	}

@@ -49,3 +49,29 @@ func Plain(s string) bool {
 	}
 	return true
 }
+
+// Text returns s with each character that does not show as itself (see
+// Plain) written as the escape a Go string literal uses (\x7f, \t,
+// \u202e, \xff for a byte that is not UTF-8), and every other character,
+// spaces included, as it is: for sentences such as a problem or a hint,
+// which read best unquoted.
+func Text(s string) string {
+	if Plain(s) {
+		return s
+	}
+	var b strings.Builder
+	for i := 0; i < len(s); {
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			b.WriteString(`\x` + strconv.FormatUint(uint64(s[i])>>4, 16) + strconv.FormatUint(uint64(s[i])&15, 16))
+		case r != ' ' && (unicode.IsControl(r) || unicode.In(r, unicode.Cf, unicode.Zl, unicode.Zp, unicode.Zs)):
+			q := strconv.QuoteRuneToASCII(r)
+			b.WriteString(q[1 : len(q)-1])
+		default:
+			b.WriteString(s[i : i+size])
+		}
+		i += size
+	}
+	return b.String()
+}

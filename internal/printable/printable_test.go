@@ -30,3 +30,23 @@ func TestName(t *testing.T) {
 		require.Equal(t, tc.want, Name(tc.in), "%q", tc.in)
 	}
 }
+
+func TestText(t *testing.T) {
+	cases := []struct{ in, want string }{
+		{"column tmax: no such column", "column tmax: no such column"},
+		{"Étang 🌱", "Étang 🌱"},
+		// Source: ECMA-48 §5.3 (ESC, 0x1B, begins a control sequence);
+		// Unicode General Category Cc for DEL (U+007F) and Cf for
+		// RIGHT-TO-LEFT OVERRIDE (U+202E).
+		{"a\x1b[31mred", `a\x1b[31mred`},
+		{"del\x7f", `del\x7f`},
+		{"tab\there", `tab\there`},
+		{"bidi\u202eevil", `bidi\u202eevil`},
+		{"nbsp\u00a0x", `nbsp\u00a0x`},
+		{"caf\xe9", `caf\xe9`},
+	}
+	for _, c := range cases {
+		require.Equal(t, c.want, Text(c.in), "%q", c.in)
+		require.True(t, Plain(Text(c.in)), "%q", c.in)
+	}
+}
