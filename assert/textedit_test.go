@@ -92,6 +92,11 @@ func TestCharDiffIsAnEdit(t *testing.T) {
 		}
 		checkCharDiff(t, common+text(r.IntN(n))+tail, common+text(r.IntN(n))+tail)
 	}
+	// Found by FuzzCharDiff: the library's semantic cleanup left empty
+	// pieces here, which an edit showed as an empty change.
+	checkCharDiff(t, "0020000001010", "01000102000000010")
+	line, _ := textEdit("0020000001010", "01000102000000010", editStyle{})
+	require.NotContains(t, line, editOpen+editArrow+editClose)
 	// From memory: the diff-match-patch API documentation's example of
 	// diff_cleanupSemantic: "mouse" → "sofas" shows as one change, not
 	// as the letters the words happen to share.

@@ -149,7 +149,7 @@ func charDiff(want, got string) []diffmatchpatch.Diff {
 	if len(mw)+len(mg) <= editMiddle {
 		dmp := diffmatchpatch.New()
 		dmp.DiffTimeout = 0
-		return dmp.DiffCleanupSemantic(dmp.DiffMain(want, got, false))
+		return tidyDiffs(dmp.DiffCleanupSemantic(dmp.DiffMain(want, got, false)))
 	}
 	var diffs []diffmatchpatch.Diff
 	if p > 0 {
@@ -165,6 +165,24 @@ func charDiff(want, got string) []diffmatchpatch.Diff {
 		diffs = append(diffs, diffmatchpatch.Diff{Type: diffmatchpatch.DiffEqual, Text: want[len(want)-sfx:]})
 	}
 	return diffs
+}
+
+// tidyDiffs drops the empty pieces diffmatchpatch's semantic cleanup can
+// leave ("0" → "010001…" gave an empty deletion beside an empty equal
+// piece, which an edit would show as ⟦→⟧) and joins neighbours of one
+// type.
+func tidyDiffs(diffs []diffmatchpatch.Diff) []diffmatchpatch.Diff {
+	out := diffs[:0]
+	for _, d := range diffs {
+		switch {
+		case d.Text == "":
+		case len(out) > 0 && out[len(out)-1].Type == d.Type:
+			out[len(out)-1].Text += d.Text
+		default:
+			out = append(out, d)
+		}
+	}
+	return out
 }
 
 // commonPrefix is the length in bytes of the common start of a and b, on
