@@ -841,19 +841,4 @@ func UseColor(f *os.File) bool {
 
 // wrap breaks s at spaces into lines of at most width columns; lines after
 // the first are indented. A word longer than a line stays whole.
-func wrap(s string, width, indent int) []string {
-	var lines []string
-	line := ""
-	for _, word := range strings.Split(s, " ") {
-		switch {
-		case line == "":
-			line = word
-		case textwidth.Width(line)+1+textwidth.Width(word) <= width:
-			line += " " + word
-		default:
-			lines = append(lines, line)
-			line = strings.Repeat(" ", indent) + word
-		}
-	}
-	return append(lines, line)
-}
+func wrap(s string, width, indent int) []string { return textwidth.Wrap(s, width, indent) }

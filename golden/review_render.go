@@ -384,23 +384,26 @@ func (r *Review) TextWith(st assert.TextStyle) string {
 	b.WriteString("\n")
 	for i, row := range rows {
 		line := "  " + textwidth.PadRight(row[0], widths[0]) + "  " + textwidth.PadRight(row[1], widths[1]) + "  " + textwidth.PadLeft(row[2], widths[2]) + "  " + row[3]
-		line = textwidth.Truncate(line, st.Width)
+		// The path ends the line and is never cut: a long one makes its
+		// line longer.
 		if i == 0 {
 			line = bold(line)
 		}
 		b.WriteString(line + "\n")
 	}
 	for _, f := range r.Files {
-		b.WriteString("\n" + bold(textwidth.Truncate("== "+printable.Name(f.Path)+" ("+f.Status.Label()+")", st.Width)) + "\n")
-		b.WriteString(indent(textwidth.Truncate(f.Summary(), st.Width-2)) + "\n")
+		// Paths, rules and summaries are never cut: they name files, key
+		// columns and tolerances. The rules and summary are wrapped.
+		b.WriteString("\n" + bold("== "+printable.Name(f.Path)+" ("+f.Status.Label()+")") + "\n")
+		b.WriteString(indent(strings.Join(textwidth.Wrap(f.Summary(), st.Width-2, 2), "\n")) + "\n")
 		if f.Test != "" {
 			b.WriteString("  checked by " + f.Test + "\n")
 		}
 		if f.Kind == KindTable && f.Diff != nil && f.Status == ReviewChanged && f.Test == "" {
 			if f.RulesChange != "" {
-				b.WriteString(indent(textwidth.Truncate(f.RulesChange, st.Width-2)) + "\n")
+				b.WriteString(indent(strings.Join(textwidth.Wrap(f.RulesChange, st.Width-2, 2), "\n")) + "\n")
 			}
-			b.WriteString(indent(textwidth.Truncate("compared under: "+f.Rules.String(), st.Width-2)) + "\n")
+			b.WriteString(indent(strings.Join(textwidth.Wrap("compared under: "+f.Rules.String(), st.Width-2, 2), "\n")) + "\n")
 		}
 		var body string
 		fitted := false

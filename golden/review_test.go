@@ -14,6 +14,7 @@ import (
 
 	"github.com/proofsheet/proofsheet/assert"
 	"github.com/proofsheet/proofsheet/fixtures"
+	"github.com/proofsheet/proofsheet/internal/textwidth"
 )
 
 const reviewOld = `# proofsheet sheet v1
@@ -193,6 +194,27 @@ func TestReviewKeepsKeysWhole(t *testing.T) {
 	require.Contains(t, text, "("+house+", "+bay+")")
 	require.Contains(t, rv.Markdown(), house)
 	require.Contains(t, rv.HTML(), house)
+
+	// Long key column names, many tolerances and a long path: the file's
+	// heading and the rules it was compared under are wrapped, never cut.
+	keyA, keyB := "greenhouse_name_as_written_by_the_datalogger", "bay_description_from_the_site_survey"
+	head2 := "# proofsheet sheet v2\n# keys: " + keyA + ", " + keyB + "\n# rows: 1\n# match: by key\n" +
+		"# tol: tmax_daily_maximum_celsius=abs:0.05\n# tol: tmin_daily_minimum_celsius=abs:0.05\n# tol: mean_of_the_readings_kept=rel:1e-06\n" +
+		keyA + ":string | " + keyB + ":string | tmax_daily_maximum_celsius:float64 | tmin_daily_minimum_celsius:float64 | mean_of_the_readings_kept:float64\n"
+	path := "reports/greenhouses/season-2026/daily-maxima-and-minima-by-house-and-bay/" + strings.Repeat("x", 30) + ".gold.tbl"
+	rv = &Review{Files: []FileReview{ReviewChange(change(path, head2+house+" | "+bay+" | 21.5 | 3 | 12\n", head2+house+" | "+bay+" | 22.5 | 3 | 12\n"))}}
+	text = rv.TextWith(assert.TextStyle{Width: 100})
+	require.Contains(t, text, path, "the path whole")
+	flat := strings.Join(strings.Fields(text), " ")
+	for _, s := range []string{keyA, keyB, "tmax_daily_maximum_celsius=abs:0.05", "tmin_daily_minimum_celsius=abs:0.05", "mean_of_the_readings_kept=rel:1e-06"} {
+		require.Contains(t, flat, s, "%s whole in\n%s", s, text)
+	}
+	require.NotContains(t, text, "…", "nothing cut:\n%s", text)
+	for _, l := range strings.Split(text, "\n") {
+		if textwidth.Width(l) > 100 {
+			require.True(t, strings.Contains(l, path) || strings.Contains(l, house), "a line wider than 100 columns holds a long path or key: %q", l)
+		}
+	}
 }
 
 func TestReviewJSON(t *testing.T) {

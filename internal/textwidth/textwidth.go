@@ -90,3 +90,23 @@ func printableASCII(s string) bool {
 	}
 	return true
 }
+
+// Wrap breaks s at spaces into lines of at most w columns; lines after the
+// first start with indent spaces. A word longer than a line stays whole on
+// a line of its own: nothing is ever cut.
+func Wrap(s string, w, indent int) []string {
+	var lines []string
+	line := ""
+	for _, word := range strings.Split(s, " ") {
+		switch {
+		case line == "":
+			line = word
+		case Width(line)+1+Width(word) <= w:
+			line += " " + word
+		default:
+			lines = append(lines, line)
+			line = strings.Repeat(" ", indent) + word
+		}
+	}
+	return append(lines, line)
+}

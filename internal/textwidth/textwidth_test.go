@@ -91,3 +91,23 @@ func TestPrintableASCIIAsSegmented(t *testing.T) {
 	require.Equal(t, "abc…", Truncate("abcdefgh", 4))
 	require.Equal(t, 4, Width(Truncate(string(all), 4)))
 }
+
+func TestWrap(t *testing.T) {
+	cases := []struct {
+		in     string
+		w, ind int
+		want   []string
+	}{
+		{"a b c", 10, 0, []string{"a b c"}},
+		{"aa bb cc", 5, 2, []string{"aa bb", "  cc"}},
+		// A word wider than the line stays whole.
+		{"x " + "Château-Rouge-sur-la-Colline" + " y", 10, 1, []string{"x", " Château-Rouge-sur-la-Colline", " y"}},
+		// Widths are columns: 日本 is 4 columns. Source: Unicode Standard
+		// Annex #11 — U+65E5 and U+672C are East Asian Wide.
+		{"日本 日本 日本", 9, 0, []string{"日本 日本", "日本"}},
+		{"", 5, 0, []string{""}},
+	}
+	for _, c := range cases {
+		require.Equal(t, c.want, Wrap(c.in, c.w, c.ind), c.in)
+	}
+}
