@@ -264,7 +264,7 @@ func (t balanceTerm) value(f balanceFacts) (*big.Rat, bool, error) {
 	}
 	col := f.out.Column(t.cols[0])
 	if col == nil {
-		return nil, false, fmt.Errorf("no column %q in the output (it has %s)", t.cols[0], strings.Join(f.out.Names(), ", "))
+		return nil, false, fmt.Errorf("no column %q in the output (it has %s)%s", t.cols[0], strings.Join(f.out.Names(), ", "), didYouMean(t.cols[0], f.out.Names()))
 	}
 	if t.kind == "count" {
 		c := 0

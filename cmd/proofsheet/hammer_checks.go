@@ -206,7 +206,7 @@ func (j *judge) judge(ctx context.Context, s *sample, c *hammerCheck, base *runR
 			cc := base.table.Column(col)
 			if cc == nil {
 				v.held, v.class = false, "no column "+col
-				v.line = fmt.Sprintf("the output has no column %q (it has %s)", col, strings.Join(base.table.Names(), ", "))
+				v.line = fmt.Sprintf("the output has no column %q (it has %s)%s", col, strings.Join(base.table.Names(), ", "), didYouMean(col, base.table.Names()))
 				return v
 			}
 			if n := cc.NullCount(); n > 0 {
@@ -220,7 +220,7 @@ func (j *judge) judge(ctx context.Context, s *sample, c *hammerCheck, base *runR
 		for _, col := range c.cols {
 			if base.table.Column(col) == nil {
 				v.held, v.class = false, "no column "+col
-				v.line = fmt.Sprintf("the output has no column %q (it has %s)", col, strings.Join(base.table.Names(), ", "))
+				v.line = fmt.Sprintf("the output has no column %q (it has %s)%s", col, strings.Join(base.table.Names(), ", "), didYouMean(col, base.table.Names()))
 				return v
 			}
 		}
@@ -399,7 +399,7 @@ func (s *sample) facts(out *fixtures.Table) balanceFacts {
 		for _, file := range s.files {
 			for _, c := range cols {
 				if file.Sample.Schema.Index(c) < 0 {
-					return 0, fmt.Errorf("in.rows: no column %q in the schema", c)
+					return 0, fmt.Errorf("in.rows: no column %q in the schema%s", c, didYouMean(c, file.Sample.Schema.Names()))
 				}
 			}
 			plain := file.Sample.Plain()

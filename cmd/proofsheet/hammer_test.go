@@ -296,6 +296,11 @@ func TestHammerChecks(t *testing.T) {
 	rep, r = runHammerJSON(t, dir, append([]string{"--run", "cat {in}", "--check", "no-nulls=greenhouse"}, base...)...)
 	require.Equal(t, exitDiffers, r.code, r.stderr)
 	require.Equal(t, "no column greenhouse", rep.Failure.Class)
+	require.NotContains(t, rep.Failure.Message, "did you mean", "nothing close to greenhouse")
+	// Unshrunk, as the shrinker would rightly take the house column out.
+	rep, r = runHammerJSON(t, dir, append([]string{"--run", "cat {in}", "--check", "unique=hous", "--max-shrinks", "0"}, base...)...)
+	require.Equal(t, exitDiffers, r.code, r.stderr)
+	require.Contains(t, rep.Failure.Message, `the output has no column "hous" (it has house, logged_at, temp_c): did you mean "house"?`)
 
 	// Copying is idempotent; adding a row on every pass is not.
 	rep, r = runHammerJSON(t, dir, append([]string{"--run", "cp {in} {out}", "--check", "idempotent"}, base...)...)
@@ -445,6 +450,10 @@ func TestBalanceCheck(t *testing.T) {
 	require.NoError(t, err)
 	_, err = b.check(facts)
 	require.ErrorContains(t, err, `column "house" is string`)
+	b, err = parseBalance("sum(kep) = 7")
+	require.NoError(t, err)
+	_, err = b.check(facts)
+	require.ErrorContains(t, err, `no column "kep" in the output (it has house, kept, share, cost): did you mean "kept"?`)
 	b, err = parseBalance("sum(cost) = 3")
 	require.NoError(t, err)
 	msg, err := b.check(facts)
