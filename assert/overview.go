@@ -309,6 +309,10 @@ func boolInt(b bool) int {
 	return 0
 }
 
+// keptPairs bounds how many differing cells' values numberShape keeps
+// between its passes (16 bytes each).
+const keptPairs = 1 << 20
+
 // numberShape measures the differing cells of a number column.
 func (c *comparison) numberShape(cc *colCmp, r *colResult) NumberShape {
 	s := NumberShape{Column: cc.name}
@@ -328,8 +332,19 @@ func (c *comparison) numberShape(cc *colCmp, r *colResult) NumberShape {
 		f := col.Float64(i)
 		return f, !math.IsNaN(f) && !math.IsInf(f, 0)
 	}
-	// Every differing cell, in slot order: the column's own bitmap.
+	// Every differing cell, in slot order: the column's own bitmap. The
+	// cells lie at random places of both tables, so the first pass keeps
+	// their values (up to keptPairs of them) and the later passes read
+	// those instead of the tables again.
+	var kept []float64 // w, g of each usable cell, in order
+	keeping, fromKept := r.differing <= keptPairs, false
 	each := func(f func(w, g float64)) {
+		if fromKept {
+			for t := 0; t+1 < len(kept); t += 2 {
+				f(kept[t], kept[t+1])
+			}
+			return
+		}
 		for k, word := range r.rows {
 			for word != 0 {
 				slot := r.rowsBase + k*64 + bits.TrailingZeros64(word)
@@ -338,10 +353,14 @@ func (c *comparison) numberShape(cc *colCmp, r *colResult) NumberShape {
 				w, wok := value(cc.wc, wi)
 				g, gok := value(cc.gc, gi)
 				if dv := g - w; wok && gok && !math.IsInf(dv, 0) {
+					if keeping {
+						kept = append(kept, w, g)
+					}
 					f(w, g)
 				}
 			}
 		}
+		fromKept, keeping = keeping, false
 	}
 	lo, hi := math.Inf(1), math.Inf(-1)
 	minAbs := math.Inf(1)
