@@ -53,7 +53,8 @@ func goldenSeeds(tb testing.TB) [][]byte {
 // FuzzDecodeTable reads any bytes as a stored golden table. No input may
 // panic; an error names the file; a table that reads is stored again
 // (EncodeTableRules with the rules read) and reads back to the same
-// table and rules, and storing that gives the same bytes.
+// table and rules, and storing that gives the same bytes. Rules that a
+// check cannot use (a float64 key) are read: the check reports them.
 func FuzzDecodeTable(f *testing.F) {
 	for _, s := range goldenSeeds(f) {
 		f.Add(s)
@@ -80,7 +81,12 @@ func FuzzDecodeTable(f *testing.F) {
 		if !info2.Rules.Equal(info.Rules) {
 			t.Fatalf("rules changed: %v, want %v", info2.Rules, info.Rules)
 		}
-		if d := assert.Compare(tb, back, info.Rules.Options()...); !d.Equal() {
+		if lit, again := tb.Literal(), back.Literal(); lit != again {
+			t.Fatalf("the table stored again differs:\n%s\nwant:\n%s", again, lit)
+		}
+		// A check compares under the stored rules. Rules a check cannot
+		// use (a float64 key column) are its problems to report, then.
+		if d := assert.Compare(tb, back, info.Rules.Options()...); !d.Equal() && len(d.Problems) == 0 {
 			t.Fatalf("the table stored again differs:\n%s", d.Text())
 		}
 		again, err := EncodeTableRules(back, info2.Rules)
