@@ -306,7 +306,10 @@ func appendFields(b []byte, st CSVStyle, cells []Messy, delim byte, fits func(st
 		if c.IsNull() {
 			continue
 		}
-		if quoteField(st.Quoting, c.Raw, delim, r) {
+		// A header name holding a character the reader could take for the
+		// delimiter (",;|" or tab) is always quoted: a one-column file
+		// whose header is "|" was read as two empty columns.
+		if quoteField(st.Quoting, c.Raw, delim, r) || i == -1 && strings.ContainsAny(c.Raw, ",;|\t") {
 			b = append(b, '"')
 			for k := 0; k < len(c.Raw); k++ {
 				if c.Raw[k] == '"' {
