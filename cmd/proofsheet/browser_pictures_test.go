@@ -58,14 +58,29 @@ func browse(t *testing.T, page string, noScript bool) context.Context {
 		chromedp.ExecPath(chromiumPath), chromedp.Headless, chromedp.NoSandbox, chromedp.DisableGPU, chromedp.NoFirstRun,
 		chromedp.Flag("disable-quic", true), chromedp.Flag("disable-background-networking", true),
 		chromedp.Flag("disable-component-update", true), chromedp.Flag("disable-sync", true),
-		chromedp.UserDataDir(t.TempDir()), chromedp.WindowSize(1366, 900),
+		chromedp.WindowSize(1366, 900),
 	}
 	ctx, cancel := context.WithTimeout(context.Background(), 2*time.Minute)
 	t.Cleanup(cancel)
-	actx, acancel := chromedp.NewExecAllocator(ctx, opts...)
-	t.Cleanup(acancel)
-	bctx, bcancel := chromedp.NewContext(actx, chromedp.WithErrorf(t.Logf))
-	t.Cleanup(bcancel)
+	// Start the browser; on a busy machine Chromium now and then exits
+	// while starting, so a failed start is tried once more. Only the
+	// start: everything the test checks runs once.
+	var bctx context.Context
+	for attempt := 1; ; attempt++ {
+		actx, acancel := chromedp.NewExecAllocator(ctx, append(opts, chromedp.UserDataDir(t.TempDir()))...)
+		t.Cleanup(acancel)
+		c, bcancel := chromedp.NewContext(actx, chromedp.WithErrorf(t.Logf))
+		t.Cleanup(bcancel)
+		err := chromedp.Do(c, chromedp.Navigate("about:blank"))
+		if err == nil {
+			bctx = c
+			break
+		}
+		bcancel()
+		acancel()
+		require.Less(t, attempt, 2, "Chromium did not start twice: %v", err)
+		t.Logf("Chromium did not start (%v); trying once more", err)
+	}
 	u := url.URL{Scheme: "file", Path: filepath.ToSlash(page)}
 	if noScript {
 		require.NoError(t, chromedp.Do(bctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
