@@ -2,15 +2,12 @@ package main
 
 import (
 	"bytes"
-	"context"
 	"fmt"
 	"math/rand/v2"
-	"net/url"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
-	"time"
 
 	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/require"
@@ -171,28 +168,10 @@ type pageFacts struct {
 // works the changed-only button and takes a screenshot.
 func openInBrowser(t *testing.T, page string) ([]byte, pageFacts) {
 	t.Helper()
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chromiumPath),
-		chromedp.Headless,
-		chromedp.NoSandbox,
-		chromedp.DisableGPU,
-		chromedp.NoFirstRun,
-		chromedp.Flag("disable-quic", true),
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.UserDataDir(t.TempDir()),
-		chromedp.WindowSize(1366, 900),
-	}
-	ctx, cancel := context.WithTimeout(context.Background(), 2*time.Minute)
-	defer cancel()
-	actx, acancel := chromedp.NewExecAllocator(ctx, opts...)
-	defer acancel()
-	bctx, bcancel := chromedp.NewContext(actx, chromedp.WithErrorf(t.Logf))
-	defer bcancel()
-
-	u := url.URL{Scheme: "file", Path: filepath.ToSlash(page)}
-	require.NoError(t, chromedp.Do(bctx, chromedp.Navigate(u.String())))
+	// The same start as the pictures test: a failed start of Chromium on
+	// a busy machine is tried once more, and the browser closes with the
+	// test.
+	bctx := browse(t, page, false)
 	num := func(js string) int {
 		n, err := chromedp.Run(bctx, chromedp.Evaluate[int](js))
 		require.NoError(t, err, js)
