@@ -232,6 +232,10 @@ func (u unprefixed) Unwrap() error { return u.err }
 
 // columnOption applies one KEY=VALUE option of a column line.
 func (s *GenSpec) columnOption(r *Rules, weights *[]float64, typ fixtures.Type, cname, key, val string) error {
+	if strings.ContainsRune(val, 0) {
+		// A NUL in the file made the reader take it for UTF-16.
+		return fmt.Errorf("%s: the value holds a NUL byte, which a generated file cannot carry", key)
+	}
 	shareOf := func(dst *float64) error {
 		v, err := strconv.ParseFloat(val, 64)
 		if err != nil || v < 0 || v > 1 {
