@@ -97,7 +97,10 @@ func FuzzDecodeTable(f *testing.F) {
 		}
 		// A check compares under the stored rules. Rules a check cannot
 		// use (a float64 key column) are its problems to report, then.
-		if d := assert.Compare(tb, back, info.Rules.Options()...); !d.Equal() && len(d.Problems) == 0 {
+		// A key that repeats is reported whatever the rows hold (keyed
+		// matching cannot pair them), so only the rest must be equal.
+		if d := assert.Compare(tb, back, info.Rules.Options()...); !d.Equal() && len(d.Problems) == 0 &&
+			(d.Duplicates.WantKeys == 0 || d.CellsDiffering > 0 || d.Missing.Count > 0 || d.Extra.Count > 0) {
 			t.Fatalf("the table stored again differs:\n%s", d.Text())
 		}
 		again, err := EncodeTableRules(back, info2.Rules)
