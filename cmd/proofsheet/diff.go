@@ -95,12 +95,7 @@ const gcWhileReading = 10
 
 func runDiff(e *env, c *command, args []string) int {
 	fs := newFlags(c)
-	keys := fs.String("key", "", "")
-	anyOrder := fs.Bool("any-row-order", false, "")
-	var tols tolFlags
-	fs.Var(&tols, "tol", "")
-	ignore := fs.String("ignore", "", "")
-	loose := fs.Bool("loose-types", false, "")
+	cf := addCompareFlags(fs)
 	rf := addReaderFlags(fs)
 	format := fs.String("format", "text", "")
 	out := fs.String("out", "", "")
@@ -149,28 +144,9 @@ func runDiff(e *env, c *command, args []string) int {
 	if !reportFormats[*format] {
 		return trouble(e, c, "--format %q: unknown format (want text, markdown, json or html)", *format)
 	}
-	opts, err := tolOptions(tols)
+	opts, err := cf.options()
 	if err != nil {
 		return trouble(e, c, "%v", err)
-	}
-	if *keys != "" && *anyOrder {
-		return trouble(e, c, "--key and --any-row-order exclude each other: rows are matched by key or in any order")
-	}
-	if isSet(fs, "key") {
-		k := splitList(*keys)
-		if len(k) == 0 {
-			return trouble(e, c, "--key: no column named")
-		}
-		opts = append(opts, assert.ByKey(k...))
-	}
-	if *anyOrder {
-		opts = append(opts, assert.AnyRowOrder())
-	}
-	if cols := splitList(*ignore); len(cols) > 0 {
-		opts = append(opts, assert.IgnoreColumns(cols...))
-	}
-	if *loose {
-		opts = append(opts, assert.LooseTypes())
 	}
 	opts = append(opts, assert.ListLimit(*maxCells))
 	if err := checkOut(*out); err != nil {
@@ -178,10 +154,7 @@ func runDiff(e *env, c *command, args []string) int {
 	}
 	// An option naming a column neither table has is a mistake in the
 	// command line, not a difference between the tables.
-	named := append(splitList(*keys), splitList(*ignore)...)
-	for _, spec := range tols {
-		named = append(named, tolColumn(spec))
-	}
+	named := cf.named()
 	what := "file"
 	if ef.used() {
 		what = "table"

@@ -100,12 +100,7 @@ func runGolden(e *env, c *command, args []string) int {
 	fs := newFlags(c)
 	update := fs.Bool("update", false, "")
 	store := fs.String("store", defaultStore, "")
-	keys := fs.String("key", "", "")
-	anyOrder := fs.Bool("any-row-order", false, "")
-	var tols tolFlags
-	fs.Var(&tols, "tol", "")
-	ignore := fs.String("ignore", "", "")
-	loose := fs.Bool("loose-types", false, "")
+	cf := addCompareFlags(fs)
 	rf := addReaderFlags(fs)
 	format := fs.String("format", "text", "")
 	maxCells := fs.Int("max-cells", assert.DefaultListLimit, "")
@@ -128,28 +123,9 @@ func runGolden(e *env, c *command, args []string) int {
 	if err := checkJUnit(*junit); err != nil {
 		return trouble(e, c, "%v", err)
 	}
-	opts, err := tolOptions(tols)
+	opts, err := cf.options()
 	if err != nil {
 		return trouble(e, c, "%v", err)
-	}
-	if *keys != "" && *anyOrder {
-		return trouble(e, c, "--key and --any-row-order exclude each other: rows are matched by key or in any order")
-	}
-	if isSet(fs, "key") {
-		k := splitList(*keys)
-		if len(k) == 0 {
-			return trouble(e, c, "--key: no column named")
-		}
-		opts = append(opts, assert.ByKey(k...))
-	}
-	if *anyOrder {
-		opts = append(opts, assert.AnyRowOrder())
-	}
-	if cols := splitList(*ignore); len(cols) > 0 {
-		opts = append(opts, assert.IgnoreColumns(cols...))
-	}
-	if *loose {
-		opts = append(opts, assert.LooseTypes())
 	}
 	opts = append(opts, assert.ListLimit(*maxCells))
 	if *update {

@@ -148,12 +148,7 @@ func runHammer(e *env, c *command, args []string) int {
 	program := fs.String("run", "", "")
 	var checkSpecs tolFlags
 	fs.Var(&checkSpecs, "check", "")
-	keys := fs.String("key", "", "")
-	anyOrder := fs.Bool("any-row-order", false, "")
-	var tols tolFlags
-	fs.Var(&tols, "tol", "")
-	ignore := fs.String("ignore", "", "")
-	loose := fs.Bool("loose-types", false, "")
+	cf := addCompareFlags(fs)
 	rf := addReaderFlags(fs)
 	samples := fs.Int("samples", defaultSamples, "")
 	rows := fs.Int("rows", defaultRows, "")
@@ -234,31 +229,9 @@ func runHammer(e *env, c *command, args []string) int {
 			}
 		}
 	}
-	opts, err := tolOptions(tols)
+	opts, err := cf.options()
 	if err != nil {
 		return trouble(e, c, "%v", err)
-	}
-	if *keys != "" && *anyOrder {
-		return trouble(e, c, "--key and --any-row-order exclude each other: rows are matched by key or in any order")
-	}
-	keyed := false
-	if isSet(fs, "key") {
-		k := splitList(*keys)
-		if len(k) == 0 {
-			return trouble(e, c, "--key: no column named")
-		}
-		opts = append(opts, assert.ByKey(k...))
-		keyed = true
-	}
-	if *anyOrder {
-		opts = append(opts, assert.AnyRowOrder())
-		keyed = true
-	}
-	if cols := splitList(*ignore); len(cols) > 0 {
-		opts = append(opts, assert.IgnoreColumns(cols...))
-	}
-	if *loose {
-		opts = append(opts, assert.LooseTypes())
 	}
 	opts = append(opts, assert.ListLimit(assert.DefaultListLimit))
 
@@ -296,7 +269,7 @@ func runHammer(e *env, c *command, args []string) int {
 		e: e, schemaFile: *schemaFile, spec: spec, program: *program, checks: checks,
 		samples: *samples, rows: *rows, files: *files, seed: seed, seedFrom: seedFrom, jobs: *jobs,
 		maxShrinks: *maxShrinks, keep: *keep, start: time.Now(),
-		judge: &judge{rn: &runner{root: root, timeout: *timeout, outExt: outExt, readOpts: readOpts}, program: *program, opts: opts, keyed: keyed},
+		judge: &judge{rn: &runner{root: root, timeout: *timeout, outExt: outExt, readOpts: readOpts}, program: *program, opts: opts, keyed: cf.keyed()},
 	}
 	h.reproduce = reproduceLine(fs, seed)
 	bar := newProgress(e, *quiet)
