@@ -58,20 +58,7 @@ func (cc *colCmp) floatRun(a, b []float64, l lineup, r *colResult) {
 		hi := min(lo+floatBlock, n)
 		// Validity and pairing words of the block's chunks.
 		var both, oneNull [floatBlock / 64]uint64
-		same := true
-		for c := lo; c < hi; c += 64 {
-			vw, vg := l.wv.word(c, n), l.gv.word(c, n)
-			pm := ^uint64(0)
-			if l.paired != nil {
-				pm = l.paired(c)
-			}
-			if left := hi - c; left < 64 {
-				pm &= 1<<uint(left) - 1
-			}
-			i := (c - lo) / 64
-			both[i], oneNull[i] = vw&vg&pm, (vw^vg)&pm
-			same = same && oneNull[i] == 0
-		}
+		same := l.masks(lo, hi, n, &both, &oneNull)
 		// Identical bytes and validity: every pair is null with null or
 		// equal values (what unpaired slots hold does not matter).
 		if same && bytes.Equal(asBytes(a[lo:hi]), asBytes(b[lo:hi])) {
